@@ -1,0 +1,123 @@
+using System.Collections.Immutable;
+
+namespace JunctionFit.Results;
+
+/// <summary>Outcome of one fit.</summary>
+public enum FitStatus
+{
+    /// <summary>Converged and the model describes the data.</summary>
+    Ok,
+
+    /// <summary>Converged, but the model does not describe the data (see warnings).</summary>
+    PoorFit,
+
+    /// <summary>No usable result; <see cref="FitResult.Error"/> says why.</summary>
+    Failed,
+}
+
+/// <summary>One fitted or fixed parameter in its display unit (the unit is part of <see cref="Key"/>).</summary>
+/// <param name="Key">Stable key, for example <c>barrier_height_eV</c>.</param>
+/// <param name="Symbol">Symbol for plots (φ, d, A, m*/mₑ).</param>
+/// <param name="Unit">Display unit.</param>
+/// <param name="Value">Estimate (or the fixed value).</param>
+/// <param name="StandardError">Standard error, null when fixed or not estimable.</param>
+/// <param name="Lower95">Lower end of the 95 % interval, null when fixed or not estimable.</param>
+/// <param name="Upper95">Upper end of the 95 % interval.</param>
+/// <param name="IsFixed">True when held fixed during the fit.</param>
+public sealed record ParameterEstimate(
+    string Key, string Symbol, string Unit, double Value, double? StandardError, double? Lower95, double? Upper95, bool IsFixed);
+
+/// <summary>Figures of merit of a fit.</summary>
+/// <param name="PointsUsed">Points that entered the residuals.</param>
+/// <param name="PointsMasked">Points left out (noise floor, wrong sign, compliance, zero bias).</param>
+/// <param name="Iterations">Solver iterations of the winning start.</param>
+/// <param name="ResidualSumOfSquares">Weighted residual sum of squares.</param>
+/// <param name="ReducedChiSquare">RSS / (points − free parameters), null when there are no degrees of freedom.</param>
+/// <param name="Converged">True when the solver met a convergence test.</param>
+/// <param name="StopReason">The solver's exit condition in words.</param>
+/// <param name="CovarianceScaling">How the covariance was scaled (for example "scaled by reduced chi-square").</param>
+/// <param name="IntervalMethod">How the 95 % intervals were computed.</param>
+public sealed record FitQuality(
+    int PointsUsed, int PointsMasked, int Iterations, double ResidualSumOfSquares, double? ReducedChiSquare,
+    bool Converged, string StopReason, string CovarianceScaling, string IntervalMethod);
+
+/// <summary>The data and the model along the measured voltages, for plots. A snapshot.</summary>
+/// <param name="VoltageV">Bias in volt.</param>
+/// <param name="MeasuredCurrentA">Measured current in ampere.</param>
+/// <param name="ModelCurrentA">Fitted model current in ampere at the same voltages.</param>
+/// <param name="Used">True where the point entered the fit.</param>
+/// <param name="LogResidual">ln|I_meas| − ln|I_model| (NaN where undefined).</param>
+public sealed record CurveSnapshot(
+    ImmutableArray<double> VoltageV,
+    ImmutableArray<double> MeasuredCurrentA,
+    ImmutableArray<double> ModelCurrentA,
+    ImmutableArray<bool> Used,
+    ImmutableArray<double> LogResidual);
+
+/// <summary>Everything known about one fit. Immutable; no reference back into solver state.</summary>
+public sealed record FitResult
+{
+    /// <summary>The input path as given.</summary>
+    public required string SourcePath { get; init; }
+
+    /// <summary>Model name (as for <c>--model</c>).</summary>
+    public required string Model { get; init; }
+
+    /// <summary>Outcome.</summary>
+    public required FitStatus Status { get; init; }
+
+    /// <summary>Why the fit failed, in words a user can act on; null unless failed.</summary>
+    public string? Error { get; init; }
+
+    /// <summary>Warnings in words (regime, identifiability, masked points, misfit).</summary>
+    public ImmutableArray<string> Warnings { get; init; } = [];
+
+    /// <summary>All model parameters, in the model's order.</summary>
+    public ImmutableArray<ParameterEstimate> Parameters { get; init; } = [];
+
+    /// <summary>Fit statistics; null when the fit failed before solving.</summary>
+    public FitQuality? Quality { get; init; }
+
+    /// <summary>Keys of the free parameters, the order of <see cref="CorrelationRowMajor"/>.</summary>
+    public ImmutableArray<string> CorrelationKeys { get; init; } = [];
+
+    /// <summary>Correlation matrix of the free parameters, row-major.</summary>
+    public ImmutableArray<double> CorrelationRowMajor { get; init; } = [];
+
+    /// <summary>Data and model for plotting; null when the fit failed before solving.</summary>
+    public CurveSnapshot? Curve { get; init; }
+
+    /// <summary>Transition voltage (minimum of ln(I/V²) against 1/V) for positive bias, in volt, if found.</summary>
+    public double? TransitionVoltageV { get; init; }
+
+    /// <summary>Lot, if known.</summary>
+    public string? Lot { get; init; }
+
+    /// <summary>Wafer, if known.</summary>
+    public string? Wafer { get; init; }
+
+    /// <summary>Die column, if known.</summary>
+    public int? DieX { get; init; }
+
+    /// <summary>Die row, if known.</summary>
+    public int? DieY { get; init; }
+
+    /// <summary>The estimate with <paramref name="key"/>, or null.</summary>
+    public ParameterEstimate? Find(string key)
+    {
+        foreach (var p in Parameters)
+        {
+            if (string.Equals(p.Key, key, StringComparison.Ordinal)) return p;
+        }
+        return null;
+    }
+
+    /// <summary>A failed result with a message.</summary>
+    public static FitResult Failed(string sourcePath, string model, string error) => new()
+    {
+        SourcePath = sourcePath,
+        Model = model,
+        Status = FitStatus.Failed,
+        Error = error,
+    };
+}

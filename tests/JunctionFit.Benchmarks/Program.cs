@@ -1,0 +1,1 @@
+namespace JunctionFit.Benchmarks; public static class Program { public static void Main(string[] args) {} }
