@@ -1,0 +1,93 @@
+using System.Globalization;
+using JunctionFit.Results;
+
+namespace JunctionFit.Reporting;
+
+/// <summary>
+/// A parameter converted to the unit a reader expects on a plot or in a report: φ in eV, d in nm,
+/// area in µm² (the result holds m², as its key says), the mass ratio without a unit.
+/// Machine-readable outputs (CSV, JSON) keep the key's own unit.
+/// </summary>
+internal readonly record struct DisplayQuantity(
+    string Key, string Symbol, string Unit, double Value, double? StandardError, double? Lower95, double? Upper95, bool IsFixed)
+{
+    private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
+
+    /// <summary>Converts one estimate to its display unit.</summary>
+    public static DisplayQuantity From(ParameterEstimate p)
+    {
+        ArgumentNullException.ThrowIfNull(p);
+        double factor = 1.0;
+        string unit = p.Unit;
+        if (string.Equals(p.Key, "area_m2", StringComparison.Ordinal))
+        {
+            factor = 1e12; // m² → µm²
+            unit = "µm²";
+        }
+        return new DisplayQuantity(
+            p.Key, p.Symbol, unit, p.Value * factor, p.StandardError * factor, p.Lower95 * factor, p.Upper95 * factor, p.IsFixed);
+    }
+
+    /// <summary>True when both interval ends are known and finite.</summary>
+    public bool HasInterval => Lower95 is double lo && Upper95 is double hi && double.IsFinite(lo) && double.IsFinite(hi);
+
+    /// <summary>Decimal places that show the interval's half-width to two significant figures (null: use general format).</summary>
+    public int? Decimals
+    {
+        get
+        {
+            double spread = HasInterval ? 0.5 * (Upper95!.Value - Lower95!.Value) : StandardError ?? double.NaN;
+            if (!double.IsFinite(spread) || spread <= 0 || !double.IsFinite(Value)) return null;
+            int d = 1 - (int)Math.Floor(Math.Log10(spread));
+            if (d < 0) d = 0;
+            if (d > 10) return null;
+            // Very large or very small magnitudes read better in exponent form.
+            double mag = Math.Abs(Value);
+            if (mag >= 1e7 || (mag > 0 && mag < 1e-4)) return null;
+            return d;
+        }
+    }
+
+    /// <summary>The value alone, with as many digits as its interval justifies.</summary>
+    public string ValueText => Format(Value, Decimals);
+
+    /// <summary>A number in the chosen format (invariant culture).</summary>
+    public string Format(double x) => Format(x, Decimals);
+
+    /// <summary>An optional number in the chosen format, or an em dash.</summary>
+    public string Format(double? x) => x is double v ? Format(v, Decimals) : "—";
+
+    /// <summary>"lo – hi" or an em dash.</summary>
+    public string IntervalText => HasInterval ? $"{Format(Lower95!.Value)} – {Format(Upper95!.Value)}" : "—";
+
+    /// <summary>Value with unit, for example "2.013 eV".</summary>
+    public string ValueWithUnit => Unit.Length == 0 ? ValueText : $"{ValueText} {Unit}";
+
+    /// <summary>Compact form for tables: "2.013 [2.002, 2.018]", "1 (fixed)", or the value alone.</summary>
+    public string Compact
+    {
+        get
+        {
+            if (IsFixed) return $"{ValueText} (fixed)";
+            return HasInterval ? $"{ValueText} [{Format(Lower95!.Value)}, {Format(Upper95!.Value)}]" : ValueText;
+        }
+    }
+
+    /// <summary>Formats with fixed decimals when known, otherwise four significant figures.</summary>
+    public static string Format(double x, int? decimals)
+    {
+        if (double.IsNaN(x)) return "NaN";
+        if (double.IsInfinity(x)) return x > 0 ? "∞" : "−∞";
+        return decimals is int d ? x.ToString("F" + d.ToString(Inv), Inv) : FormatGeneral(x);
+    }
+
+    /// <summary>Four significant figures, exponent form outside 10⁻³ … 10⁶.</summary>
+    public static string FormatGeneral(double x)
+    {
+        if (double.IsNaN(x)) return "NaN";
+        if (double.IsInfinity(x)) return x > 0 ? "∞" : "−∞";
+        double mag = Math.Abs(x);
+        if (mag != 0 && (mag < 1e-3 || mag >= 1e6)) return x.ToString("0.###e+0", Inv);
+        return x.ToString("G4", Inv);
+    }
+}

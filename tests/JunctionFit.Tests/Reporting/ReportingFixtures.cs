@@ -1,0 +1,78 @@
+using System.Collections.Immutable;
+using JunctionFit.Physics;
+using JunctionFit.Results;
+
+namespace JunctionFit.Tests.Reporting;
+
+/// <summary>Hand-built results around a synthetic Simmons curve. Invented data (lab "Kestrel Microsystems").</summary>
+internal static class ReportingFixtures
+{
+    public const string HostileName = "<script>alert(1)</script>&\"";
+
+    /// <summary>φ = 2.0 eV, d = 1.5 nm, area 100 µm², −0.8 … 0.8 V, 2 % noise and a 20 fA floor.</summary>
+    public static CurveSnapshot SyntheticCurve(int points = 161, int seed = 7)
+    {
+        var model = new JunctionCurrentModel(SimmonsRectangularModel.Instance);
+        double[] truth = [2.0 * PhysicalConstants.JoulePerElectronVolt, 1.5e-9, 1.0, 1e-10];
+        double[] fitted = [2.004 * PhysicalConstants.JoulePerElectronVolt, 1.497e-9, 1.0, 1.01e-10];
+        var spec = new SimulationSpec(-0.8, 0.8, points) { RelativeNoise = 0.02, NoiseFloorA = 2e-14, Seed = seed };
+        var (v, i) = IvSimulator.Simulate(model, truth, spec);
+        var modelI = new double[points];
+        var used = new bool[points];
+        var residual = new double[points];
+        for (int k = 0; k < points; k++)
+        {
+            modelI[k] = model.Current(v[k], fitted);
+            used[k] = Math.Abs(i[k]) > 2e-13 && Math.Sign(i[k]) == Math.Sign(v[k]);
+            residual[k] = i[k] != 0 && modelI[k] != 0 ? Math.Log(Math.Abs(i[k])) - Math.Log(Math.Abs(modelI[k])) : double.NaN;
+        }
+        return new CurveSnapshot(v, i, [.. modelI], [.. used], [.. residual]);
+    }
+
+    public static FitResult OkResult(string sourcePath = "KM-A01/W07/die_03_05.csv", string lot = "KM-A01")
+    {
+        var curve = SyntheticCurve();
+        int used = 0;
+        foreach (bool u in curve.Used) if (u) used++;
+        return new FitResult
+        {
+            SourcePath = sourcePath,
+            Model = "simmons",
+            Status = FitStatus.Ok,
+            Lot = lot,
+            Wafer = "W07",
+            DieX = 3,
+            DieY = 5,
+            Parameters =
+            [
+                new ParameterEstimate("barrier_height_eV", "φ", "eV", 2.0041, 0.0043, 1.9957, 2.0126, false),
+                new ParameterEstimate("thickness_nm", "d", "nm", 1.4968, 0.0021, 1.4927, 1.5009, false),
+                new ParameterEstimate("mass_ratio", "m*/mₑ", "", 1.0, null, null, null, true),
+                new ParameterEstimate("area_m2", "A", "m²", 1.01e-10, 0.018e-10, 0.975e-10, 1.046e-10, false),
+            ],
+            Quality = new FitQuality(used, curve.VoltageV.Length - used, 9, 0.0123 * used, 1.03, true,
+                "relative step below tolerance", "scaled by reduced chi-square", "Wald, log-transformed"),
+            CorrelationKeys = ["barrier_height_eV", "thickness_nm", "area_m2"],
+            CorrelationRowMajor = [1.0, -0.93, 0.71, -0.93, 1.0, -0.88, 0.71, -0.88, 1.0],
+            Curve = curve,
+            TransitionVoltageV = 0.781,
+            Warnings = ["11 points at or below the noise floor were masked"],
+        };
+    }
+
+    public static FitResult PoorResult() => OkResult("KM-A01/W07/die_04_05.csv") with
+    {
+        Status = FitStatus.PoorFit,
+        DieX = 4,
+        Warnings = ["residuals show a systematic trend: the model does not describe the data", "thickness and area are strongly correlated (|ρ| > 0.99); fix the area"],
+    };
+
+    public static FitResult FailedResult() =>
+        FitResult.Failed("KM-A01/W07/die_05_05.csv", "simmons", "every point is below the noise floor; check the probe contact") with
+        {
+            Lot = "KM-A01",
+            Wafer = "W07",
+            DieX = 5,
+            DieY = 5,
+        };
+}
