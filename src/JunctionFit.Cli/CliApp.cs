@@ -1,0 +1,43 @@
+using System.CommandLine;
+using JunctionFit.Cli.Commands;
+
+namespace JunctionFit.Cli;
+
+/// <summary>Builds the command tree and runs it with one top-level error handler.</summary>
+public static class CliApp
+{
+    /// <summary>Runs the tool; returns the exit code (see <see cref="ExitCodes"/>).</summary>
+    /// <param name="args">Command-line arguments.</param>
+    /// <param name="stdout">Standard output.</param>
+    /// <param name="stderr">Standard error.</param>
+    public static int Run(string[] args, TextWriter stdout, TextWriter stderr)
+    {
+        ArgumentNullException.ThrowIfNull(args);
+        var context = new CliContext(stdout, stderr);
+        var root = new RootCommand("junctionfit — barrier height, thickness and area of tunnel junctions from measured I–V sweeps.");
+        root.Subcommands.Add(FitCommand.Create(context));
+        root.Subcommands.Add(SimulateCommand.Create(context));
+        root.Subcommands.Add(DemoCommand.Create(context));
+        var parse = root.Parse(args);
+        if (parse.Errors.Count > 0)
+        {
+            foreach (var error in parse.Errors) stderr.WriteLine($"junctionfit: {error.Message}");
+            stderr.WriteLine("junctionfit: run 'junctionfit --help' or 'junctionfit COMMAND --help' for usage");
+            return ExitCodes.UsageOrInput;
+        }
+        try
+        {
+            return parse.Invoke(new InvocationConfiguration { Output = stdout, Error = stderr, EnableDefaultExceptionHandler = false });
+        }
+        catch (UsageException e)
+        {
+            stderr.WriteLine($"junctionfit: {e.Message}");
+            return ExitCodes.UsageOrInput;
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            stderr.WriteLine($"junctionfit: {e.Message}");
+            return ExitCodes.UsageOrInput;
+        }
+    }
+}

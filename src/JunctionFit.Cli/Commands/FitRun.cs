@@ -1,0 +1,119 @@
+using JunctionFit.Fitting;
+using JunctionFit.Import;
+using JunctionFit.Physics;
+using JunctionFit.Reporting;
+using JunctionFit.Results;
+
+namespace JunctionFit.Cli.Commands;
+
+/// <summary>
+/// One run of <c>fit</c>: read → fit → write, file by file, in input order. Files are processed in parallel in
+/// small ordered chunks, so results appear in a deterministic order and memory does not grow with the file count
+/// (curves are dropped once their plot is written).
+/// </summary>
+internal sealed class FitRun(CliContext context, JunctionCurrentModel model, FitOptions options, string optionSummary,
+    bool json, string? outDir, string? plotSubfolder, int jobs)
+{
+    private const int ChunkSize = 64;
+
+    public int Execute(IReadOnlyList<string> paths)
+    {
+        var (files, missing) = InputFiles.Expand(paths);
+        int unreadable = 0;
+        foreach (string m in missing)
+        {
+            context.Error.WriteLine($"{m}:0: no such file or folder");
+            unreadable++;
+            if (json) context.Out.WriteLine(FitJsonFormatter.Format(FitResult.Failed(m, model.Barrier.Name, "no such file or folder")));
+        }
+        if (files.Count == 0 && missing.Count == 0)
+        {
+            context.Error.WriteLine("junctionfit: no I–V files found in the given folder(s) (looked for " + string.Join(", ", InputFiles.Extensions) + ")");
+            return ExitCodes.UsageOrInput;
+        }
+        string? plotDir = outDir is null ? null : plotSubfolder is null ? outDir : Path.Combine(outDir, plotSubfolder);
+        if (plotDir is not null) Directory.CreateDirectory(plotDir);
+
+        var summaries = new List<FitResult>(files.Count);
+        var plotFiles = new List<string?>(files.Count);
+        int fitted = 0, notOk = 0;
+        var outcomes = new Outcome[Math.Min(ChunkSize, Math.Max(files.Count, 1))];
+        var parallel = new ParallelOptions { MaxDegreeOfParallelism = jobs };
+        var usedPlotNames = new HashSet<string>(StringComparer.Ordinal);
+        for (int start = 0; start < files.Count; start += ChunkSize)
+        {
+            int count = Math.Min(ChunkSize, files.Count - start);
+            Parallel.For(0, count, parallel, k => outcomes[k] = Process(files[start + k]));
+            for (int k = 0; k < count; k++)
+            {
+                var outcome = outcomes[k];
+                if (outcome.ReadError is not null)
+                {
+                    context.Error.WriteLine(outcome.ReadError);
+                    unreadable++;
+                }
+                else
+                {
+                    fitted++;
+                }
+                var result = outcome.Result;
+                if (result.Status != FitStatus.Ok) notOk++;
+                if (result.Status == FitStatus.Failed && outcome.ReadError is null)
+                {
+                    context.Error.WriteLine($"{result.SourcePath}:0: fit failed: {result.Error}");
+                }
+                if (json) context.Out.WriteLine(FitJsonFormatter.Format(result));
+                string? plot = null;
+                if (plotDir is not null && result.Curve is not null)
+                {
+                    plot = Path.Combine(plotDir, UniquePlotName(result.SourcePath, usedPlotNames));
+                    FitPlotRenderer.WritePng(result, plot);
+                }
+                summaries.Add(result with { Curve = null });
+                plotFiles.Add(plot);
+                outcomes[k] = default;
+            }
+        }
+
+        if (!json) context.Out.Write(SummaryTableWriter.FormatConsoleTable(summaries));
+        if (outDir is not null)
+        {
+            string csv = Path.Combine(outDir, "summary.csv");
+            string html = Path.Combine(outDir, "report.html");
+            SummaryTableWriter.WriteCsv(summaries, csv);
+            HtmlReportWriter.Write(summaries, plotFiles, html, new ReportContext(VersionInfo.Text, optionSummary));
+            context.Error.WriteLine($"junctionfit: wrote {plotFiles.Count(p => p is not null)} plot(s), {csv} and {html}");
+        }
+        if (fitted == 0) return ExitCodes.UsageOrInput;
+        return notOk == 0 && unreadable == 0 ? ExitCodes.Success : ExitCodes.SomeFailed;
+    }
+
+    private Outcome Process(string path)
+    {
+        IvCurve curve;
+        try
+        {
+            curve = IvFileReader.ReadFile(path);
+        }
+        catch (IvFormatException e)
+        {
+            return new Outcome(FitResult.Failed(path, model.Barrier.Name, e.Reason), e.Message);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            return new Outcome(FitResult.Failed(path, model.Barrier.Name, e.Message), $"{path}:0: cannot read: {e.Message}");
+        }
+        return new Outcome(JunctionFitter.Fit(curve, model, options), null);
+    }
+
+    private static string UniquePlotName(string sourcePath, HashSet<string> used)
+    {
+        string stem = Path.GetFileNameWithoutExtension(sourcePath);
+        foreach (char c in Path.GetInvalidFileNameChars()) stem = stem.Replace(c, '_');
+        string name = stem + ".png";
+        for (int i = 2; !used.Add(name); i++) name = $"{stem}-{i}.png";
+        return name;
+    }
+
+    private readonly record struct Outcome(FitResult Result, string? ReadError);
+}

@@ -1,0 +1,96 @@
+using System.CommandLine;
+using System.Globalization;
+using System.Text;
+using JunctionFit.Physics;
+
+namespace JunctionFit.Cli.Commands;
+
+/// <summary><c>junctionfit simulate</c>: write a synthetic I–V sweep as CSV <c>Voltage (V),Current (A)</c> to standard output.</summary>
+internal static class SimulateCommand
+{
+    public static Command Create(CliContext context)
+    {
+        var model = new Option<string>("--model") { Description = "barrier model: " + string.Join(", ", ModelResolver.Names), DefaultValueFactory = _ => "simmons" };
+        var barrierHeight = new Option<double?>("--barrier-height") { Description = "barrier height φ in eV", Required = true };
+        var thickness = new Option<double?>("--thickness") { Description = "barrier thickness d in nm", Required = true };
+        var area = new Option<string>("--area") { Description = "effective area (bare number: µm²; suffixes um2, m2, cm2, nm2)", Required = true };
+        var asymmetry = new Option<double?>("--asymmetry") { Description = "barrier asymmetry Δφ in eV (models with an asymmetry parameter)" };
+        var massRatio = new Option<double>("--mass-ratio") { Description = "effective mass ratio m*/mₑ", DefaultValueFactory = _ => 1.0 };
+        var set = new Option<string[]>("--set") { Description = "any other model parameter: NAME=VALUE in its display unit; repeatable" };
+        var from = new Option<double>("--from") { Description = "first bias in V", Required = true };
+        var to = new Option<double>("--to") { Description = "last bias in V", Required = true };
+        var points = new Option<int>("--points") { Description = "number of points (at least 2)", Required = true };
+        var noise = new Option<double>("--noise") { Description = "relative Gaussian current noise r (σ = r·|I|); default 0 (noise-free)", DefaultValueFactory = _ => 0.0 };
+        var noiseFloor = new Option<double>("--noise-floor") { Description = "absolute Gaussian current noise in A; default 0", DefaultValueFactory = _ => 0.0 };
+        var seed = new Option<int>("--seed") { Description = "seed of the noise generator", DefaultValueFactory = _ => 1 };
+        var header = new Option<string[]>("--header") { Description = "write a '# key: value' line before the table (for example lot=HX-101); repeatable" };
+
+        var command = new Command("simulate", "Write a simulated I–V sweep (CSV: Voltage (V),Current (A)) to standard output.");
+        foreach (var o in new Option[] { model, barrierHeight, thickness, area, asymmetry, massRatio, set, from, to, points, noise, noiseFloor, seed, header })
+        {
+            command.Options.Add(o);
+        }
+        command.SetAction(parse =>
+        {
+            var junction = new JunctionCurrentModel(ModelResolver.Resolve(parse.GetValue(model) ?? "simmons"));
+            var theta = new double[junction.Parameters.Count];
+            for (int k = 0; k < theta.Length; k++) theta[k] = junction.Parameters[k].DefaultSi;
+            void Set(string name, double si, string option)
+            {
+                int k = junction.IndexOf(ParameterNames.Find(junction, name, option).Key);
+                theta[k] = si;
+            }
+            Set("barrier_height_eV", Positive(parse.GetValue(barrierHeight), "--barrier-height") * PhysicalConstants.JoulePerElectronVolt, "--barrier-height");
+            Set("thickness_nm", Positive(parse.GetValue(thickness), "--thickness") * 1e-9, "--thickness");
+            Set("area_m2", QuantityParser.ParseAreaM2(parse.GetValue(area) ?? ""), "--area");
+            double mr = parse.GetValue(massRatio);
+            if (junction.IndexOf("mass_ratio") >= 0) Set("mass_ratio", Positive(mr, "--mass-ratio"), "--mass-ratio");
+            if (parse.GetValue(asymmetry) is double asym)
+            {
+                var def = ParameterNames.Find(junction, "asymmetry", "--asymmetry");
+                theta[junction.IndexOf(def.Key)] = def.FromDisplay(asym);
+            }
+            foreach (string item in parse.GetValue(set) ?? [])
+            {
+                int eq = item.IndexOf('=', StringComparison.Ordinal);
+                if (eq <= 0) throw new UsageException($"--set: '{item}' must be NAME=VALUE");
+                var def = ParameterNames.Find(junction, item[..eq].Trim(), "--set");
+                theta[junction.IndexOf(def.Key)] = ParameterNames.ParseValueSi(def, item[(eq + 1)..].Trim(), "--set");
+            }
+            int n = parse.GetValue(points);
+            if (n < 2) throw new UsageException($"--points: {n} must be at least 2");
+            double r = parse.GetValue(noise), floor = parse.GetValue(noiseFloor);
+            if (!(r >= 0) || !double.IsFinite(r)) throw new UsageException($"--noise: {r} must be zero or positive");
+            if (!(floor >= 0) || !double.IsFinite(floor)) throw new UsageException($"--noise-floor: {floor} must be zero or positive");
+            var spec = new SimulationSpec(parse.GetValue(from), parse.GetValue(to), n)
+            {
+                RelativeNoise = r,
+                NoiseFloorA = floor,
+                Seed = parse.GetValue(seed),
+            };
+            var (v, i) = IvSimulator.Simulate(junction, theta, spec);
+            var text = new StringBuilder(64 * n);
+            foreach (string item in parse.GetValue(header) ?? [])
+            {
+                int eq = item.IndexOf('=', StringComparison.Ordinal);
+                if (eq <= 0) throw new UsageException($"--header: '{item}' must be KEY=VALUE");
+                text.Append("# ").Append(item[..eq].Trim()).Append(": ").Append(item[(eq + 1)..].Trim()).Append('\n');
+            }
+            text.Append("Voltage (V),Current (A)\n");
+            for (int k = 0; k < n; k++)
+            {
+                text.Append(v[k].ToString("R", CultureInfo.InvariantCulture)).Append(',')
+                    .Append(i[k].ToString("R", CultureInfo.InvariantCulture)).Append('\n');
+            }
+            context.Out.Write(text.ToString());
+            return ExitCodes.Success;
+        });
+        return command;
+    }
+
+    private static double Positive(double? value, string option)
+    {
+        if (value is not double v || !(v > 0) || !double.IsFinite(v)) throw new UsageException($"{option}: must be a positive number");
+        return v;
+    }
+}

@@ -1,0 +1,424 @@
+using System.Collections.Immutable;
+using JunctionFit.Import;
+using JunctionFit.Physics;
+using JunctionFit.Results;
+using MathNet.Numerics.Distributions;
+using MathNet.Numerics.LinearAlgebra;
+
+namespace JunctionFit.Fitting;
+
+/// <summary>
+/// Fits a junction model to one measured curve on ln|I| residuals and returns an immutable <see cref="FitResult"/>.
+/// <para>
+/// Steps: (1) mask unusable points (zero bias, zero or wrong-sign current, at or below 3·σ_floor, at compliance,
+/// flagged by the importer); (2) a data-driven start: a log-spaced grid over φ and d with the area profiled out in
+/// closed form (in ln|I| the area is an additive constant, so its best value for given φ, d is the weighted mean of
+/// ln|I| − ln|J|); (3) Levenberg–Marquardt from the best few grid points in log-transformed variables;
+/// (4) the covariance from JᵀJ at the optimum and Wald 95 % intervals in the log space mapped back, so that every
+/// interval stays positive; (5) quality checks (runs test on the residual signs, reduced χ² when the noise is known),
+/// validity and identifiability warnings.
+/// </para>
+/// Pure computation; thread-safe (no shared mutable state).
+/// </summary>
+public static class JunctionFitter
+{
+    /// <summary>|ρ| above which two parameters are reported as not separable (common practice, no source).</summary>
+    public const double CorrelationWarningThreshold = 0.99;
+
+    /// <summary>Condition number of the column-scaled Jacobian above which the fit is reported as near-singular.</summary>
+    public const double ConditionWarningThreshold = 1e8;
+
+    /// <summary>Runs-test z below which the residual signs show systematic misfit (one-sided p ≈ 0.0005).</summary>
+    public const double RunsTestCriticalZ = -3.29;
+
+    /// <summary>Fits <paramref name="model"/> to <paramref name="curve"/>.</summary>
+    /// <param name="curve">The measured curve (SI).</param>
+    /// <param name="model">The junction model.</param>
+    /// <param name="options">Fit options.</param>
+    /// <returns>The result; failures are a status on the result, never an exception.</returns>
+    public static FitResult Fit(IvCurve curve, JunctionCurrentModel model, FitOptions options)
+    {
+        ArgumentNullException.ThrowIfNull(curve);
+        ArgumentNullException.ThrowIfNull(model);
+        ArgumentNullException.ThrowIfNull(options);
+        var defs = model.Parameters;
+        int p = defs.Count;
+        string modelName = model.Barrier.Name;
+
+        // ---- parameters: fixed / free, template values -------------------------------------------------
+        var theta = new double[p];
+        var isFree = new bool[p];
+        for (int k = 0; k < p; k++)
+        {
+            var def = defs[k];
+            if (options.FixedValues.TryGetValue(def.Key, out double fixedValue)
+                || (k == model.AreaIndex && options.FixAreaFromMetadata && curve.AreaM2 is double stated && (fixedValue = stated) > 0))
+            {
+                theta[k] = fixedValue;
+                isFree[k] = false;
+            }
+            else
+            {
+                isFree[k] = !def.FixedByDefault || options.FreedKeys.Contains(def.Key);
+                theta[k] = options.StartValues.TryGetValue(def.Key, out double s) ? s
+                    : k == model.AreaIndex && curve.AreaM2 is double a ? a
+                    : def.DefaultSi;
+            }
+        }
+        int nFree = 0;
+        for (int k = 0; k < p; k++) if (isFree[k]) nFree++;
+        var freeIndex = new int[nFree];
+        for (int k = 0, j = 0; k < p; k++) if (isFree[k]) freeIndex[j++] = k;
+
+        // ---- masks and weights --------------------------------------------------------------------------
+        double floor = options.NoiseFloorA ?? 0.0;
+        double? compliance = options.ComplianceA ?? curve.ComplianceA;
+        double relative = options.RelativeNoise ?? 1.0;
+        int n = curve.Count;
+        var used = new bool[n];
+        int usedCount = 0;
+        for (int i = 0; i < n; i++)
+        {
+            double v = curve.VoltageV[i], c = curve.CurrentA[i];
+            bool ok = double.IsFinite(v) && double.IsFinite(c) && v != 0 && c != 0 && Math.Sign(v) == Math.Sign(c)
+                      && Math.Abs(c) > 3.0 * floor
+                      && !(compliance is double comp && Math.Abs(c) >= 0.999 * comp)
+                      && !(curve.ImportMask.Length == n && curve.ImportMask[i]);
+            used[i] = ok;
+            if (ok) usedCount++;
+        }
+        int masked = n - usedCount;
+        if (usedCount < nFree + 2)
+        {
+            return FitResult.Failed(curve.SourcePath, modelName,
+                $"only {usedCount} of {n} points are usable (non-zero bias with current of the same sign, above the noise floor, " +
+                $"below compliance); at least {nFree + 2} are needed for {nFree} free parameters") with
+            { Lot = curve.Lot, Wafer = curve.Wafer, DieX = curve.DieX, DieY = curve.DieY };
+        }
+        var vUsed = new double[usedCount];
+        var yUsed = new double[usedCount];
+        var invSigma = new double[usedCount];
+        double maxAbsV = 0;
+        for (int i = 0, u = 0; i < n; i++)
+        {
+            if (!used[i]) continue;
+            double c = curve.CurrentA[i];
+            vUsed[u] = curve.VoltageV[i];
+            yUsed[u] = Math.Log(Math.Abs(c));
+            double rel = Math.Sqrt(relative * relative + (floor / c) * (floor / c));
+            invSigma[u] = 1.0 / rel;
+            maxAbsV = Math.Max(maxAbsV, Math.Abs(vUsed[u]));
+            u++;
+        }
+
+        // ---- data-driven start and multi-start LM -------------------------------------------------------
+        var problem = new LogCurrentProblem(model, vUsed, yUsed, invSigma, freeIndex, theta);
+        var starts = GridStarts(model, theta, isFree, vUsed, yUsed, invSigma, options.Starts);
+        LeastSquaresSolution? best = null;
+        foreach (var start in starts)
+        {
+            var x0 = new double[nFree];
+            for (int j = 0; j < nFree; j++) x0[j] = Math.Log(start[freeIndex[j]]);
+            var solution = LevenbergMarquardtSolver.Minimize(problem, x0, options.Solver);
+            if (!double.IsFinite(solution.ResidualSumOfSquares)) continue;
+            if (best is null || solution.ResidualSumOfSquares < best.ResidualSumOfSquares) best = solution;
+        }
+        if (best is null)
+        {
+            return FitResult.Failed(curve.SourcePath, modelName,
+                "the model could not be evaluated at any start value (non-finite currents); check the bias range and units") with
+            { Lot = curve.Lot, Wafer = curve.Wafer, DieX = curve.DieX, DieY = curve.DieY };
+        }
+
+        return BuildResult(curve, model, options, best, problem, freeIndex, used, usedCount, masked, maxAbsV);
+    }
+
+    private static FitResult BuildResult(IvCurve curve, JunctionCurrentModel model, FitOptions options, LeastSquaresSolution best,
+        LogCurrentProblem problem, int[] freeIndex, bool[] used, int usedCount, int masked, double maxAbsV)
+    {
+        var defs = model.Parameters;
+        int p = defs.Count, nFree = freeIndex.Length, m = usedCount;
+        int dof = m - nFree;
+        double rss = best.ResidualSumOfSquares;
+        bool noiseKnown = options.RelativeNoise is not null;
+        double? reducedChi2 = dof > 0 ? rss / dof : null;
+        double varianceScale = noiseKnown ? 1.0 : (reducedChi2 ?? double.NaN);
+        string scaling = noiseKnown
+            ? "unscaled: residuals weighted by the stated noise model"
+            : "scaled by the reduced chi-square (residual variance estimated from the fit)";
+        const string intervalMethod = "Wald, in log parameters, t quantile, mapped back (stays inside the physical bounds)";
+        var warnings = ImmutableArray.CreateBuilder<string>();
+        warnings.AddRange(curve.Warnings);
+
+        double[] thetaHat = problem.ToTheta(best.Parameters.AsSpan());
+
+        // Covariance of x = ln θ from the SVD of J: (JᵀJ)⁻¹ = V S⁻² Vᵀ.
+        var covX = new double[nFree, nFree];
+        bool covOk = nFree > 0 && dof > 0;
+        double condition = 1.0;
+        if (covOk)
+        {
+            var jac = Matrix<double>.Build.Dense(m, nFree, (i, j) => best.JacobianRowMajor[i * nFree + j]);
+            // Column scaling so that the condition number reflects identifiability, not units.
+            var colNorm = new double[nFree];
+            for (int j = 0; j < nFree; j++)
+            {
+                colNorm[j] = jac.Column(j).L2Norm();
+                if (colNorm[j] == 0) { covOk = false; }
+            }
+            if (covOk)
+            {
+                var scaled = Matrix<double>.Build.Dense(m, nFree, (i, j) => jac[i, j] / colNorm[j]);
+                var svd = scaled.Svd(computeVectors: true);
+                double sMax = svd.S[0], sMin = svd.S[nFree - 1];
+                condition = sMin > 0 ? sMax / sMin : double.PositiveInfinity;
+                if (sMin <= sMax * 1e-14)
+                {
+                    covOk = false;
+                }
+                else
+                {
+                    var vt = svd.VT;
+                    for (int a = 0; a < nFree; a++)
+                    for (int b = 0; b < nFree; b++)
+                    {
+                        double sum = 0;
+                        for (int s = 0; s < nFree; s++) sum += vt[s, a] * vt[s, b] / (svd.S[s] * svd.S[s]);
+                        covX[a, b] = sum * varianceScale / (colNorm[a] * colNorm[b]);
+                    }
+                }
+            }
+        }
+
+        double tQuantile = dof > 0 ? StudentT.InvCDF(0.0, 1.0, dof, 0.975) : double.NaN;
+        var estimates = ImmutableArray.CreateBuilder<ParameterEstimate>(p);
+        for (int k = 0; k < p; k++)
+        {
+            var def = defs[k];
+            int j = Array.IndexOf(freeIndex, k);
+            double value = thetaHat[k];
+            double? se = null, lo = null, hi = null;
+            if (j >= 0 && covOk && covX[j, j] >= 0 && double.IsFinite(covX[j, j]))
+            {
+                double seX = Math.Sqrt(covX[j, j]);
+                double x = Math.Log(value);
+                se = def.ToDisplay(value * seX);
+                lo = def.ToDisplay(Math.Exp(x - tQuantile * seX));
+                hi = def.ToDisplay(Math.Exp(x + tQuantile * seX));
+            }
+            estimates.Add(new ParameterEstimate(def.Key, def.Symbol, def.DisplayUnit, def.ToDisplay(value), se, lo, hi, j < 0));
+        }
+
+        // Correlation and identifiability.
+        var corr = ImmutableArray.CreateBuilder<double>(nFree * nFree);
+        var keys = ImmutableArray.CreateBuilder<string>(nFree);
+        for (int a = 0; a < nFree; a++) keys.Add(defs[freeIndex[a]].Key);
+        if (covOk)
+        {
+            for (int a = 0; a < nFree; a++)
+            for (int b = 0; b < nFree; b++)
+                corr.Add(covX[a, b] / Math.Sqrt(covX[a, a] * covX[b, b]));
+            for (int a = 0; a < nFree; a++)
+            for (int b = a + 1; b < nFree; b++)
+            {
+                double rho = corr[a * nFree + b];
+                if (Math.Abs(rho) > CorrelationWarningThreshold)
+                {
+                    warnings.Add((
+                        $"{defs[freeIndex[a]].Description} and {defs[freeIndex[b]].Description} are not separable by these data (correlation {rho:0.0000}); " +
+                        $"their intervals are wide. Remedy: {Remedy(defs[freeIndex[a]].Key, defs[freeIndex[b]].Key)}"));
+                }
+            }
+            if (condition > ConditionWarningThreshold)
+            {
+                warnings.Add((
+                    $"the scaled Jacobian is near-singular (condition number {condition:0.#e+0}); some parameter combinations are not determined. " +
+                    "Remedy: fix the area from the lithography (--area), widen the bias range, or keep the mass ratio fixed"));
+            }
+        }
+        else if (nFree > 0)
+        {
+            warnings.Add("the parameter covariance could not be computed (singular Jacobian or no degrees of freedom); no intervals are given. " +
+                         "Remedy: fix the area (--area) or widen the bias range");
+        }
+
+        // Curve snapshot and residual diagnostics.
+        int n = curve.Count;
+        var modelCurrent = new double[n];
+        var logResidual = new double[n];
+        for (int i = 0; i < n; i++)
+        {
+            modelCurrent[i] = model.Current(curve.VoltageV[i], thetaHat);
+            double c = curve.CurrentA[i];
+            logResidual[i] = c != 0 && modelCurrent[i] != 0 && Math.Sign(c) == Math.Sign(modelCurrent[i])
+                ? Math.Log(Math.Abs(c)) - Math.Log(Math.Abs(modelCurrent[i]))
+                : double.NaN;
+        }
+        var status = FitStatus.Ok;
+        string? error = null;
+        if (!best.Converged)
+        {
+            status = FitStatus.Failed;
+            error = $"the solver did not converge ({best.Reason}); give start values or fix the area";
+        }
+        else
+        {
+            double z = RunsTestZ(curve.VoltageV.AsSpan(), best.Residuals.AsSpan(), used);
+            if (z < RunsTestCriticalZ)
+            {
+                status = FitStatus.PoorFit;
+                warnings.Add((
+                    $"systematic misfit: the residual signs form far fewer runs than random noise would (runs test z = {z:0.0}); " +
+                    "the model does not describe this curve (short, leakage, series resistance, breakdown or another conduction mechanism)"));
+            }
+            if (noiseKnown && dof > 0)
+            {
+                double limit = ChiSquared.InvCDF(dof, 0.999) / dof;
+                if (reducedChi2 > limit)
+                {
+                    status = FitStatus.PoorFit;
+                    warnings.Add((
+                        $"reduced chi-square {reducedChi2:0.###} exceeds {limit:0.###}, the 99.9 % limit for the stated noise: the model or the noise model does not describe the data"));
+                }
+            }
+        }
+        if (masked > 0)
+        {
+            warnings.Add($"{masked} of {n} points were left out (zero bias, zero or wrong-sign current, noise floor or compliance)");
+        }
+        foreach (var w in model.Barrier.CheckValidity(maxAbsV, thetaHat.AsSpan(0, model.AreaIndex))) warnings.Add(w);
+
+        return new FitResult
+        {
+            SourcePath = curve.SourcePath,
+            Model = model.Barrier.Name,
+            Status = status,
+            Error = error,
+            Warnings = warnings.ToImmutable(),
+            Parameters = estimates.MoveToImmutable(),
+            Quality = new FitQuality(usedCount, masked, best.Iterations, rss, reducedChi2, best.Converged, best.Reason, scaling, intervalMethod),
+            CorrelationKeys = keys.MoveToImmutable(),
+            CorrelationRowMajor = corr.ToImmutable(),
+            Curve = new CurveSnapshot(curve.VoltageV, curve.CurrentA, ImmutableArray.Create(modelCurrent),
+                ImmutableArray.Create(used), ImmutableArray.Create(logResidual)),
+            Lot = curve.Lot,
+            Wafer = curve.Wafer,
+            DieX = curve.DieX,
+            DieY = curve.DieY,
+        };
+    }
+
+    private static string Remedy(string keyA, string keyB)
+    {
+        if (keyA == "area_m2" || keyB == "area_m2")
+        {
+            return "fix the area from the lithography (--area), or widen the bias range so that the curvature of I(V) pins the barrier";
+        }
+        if (keyA == "mass_ratio" || keyB == "mass_ratio")
+        {
+            return "keep the mass ratio fixed (the default) at a value from the literature for this oxide";
+        }
+        return "widen the bias range, or fix one of them from an independent measurement (ellipsometry thickness)";
+    }
+
+    /// <summary>
+    /// Wald–Wolfowitz runs test on the signs of the residuals ordered by voltage:
+    /// z = (R − E[R]) / √Var[R], E[R] = 2n₊n₋/n + 1, Var[R] = 2n₊n₋(2n₊n₋ − n) / (n²(n − 1)).
+    /// Source: A. Wald and J. Wolfowitz, Ann. Math. Stat. 11, 147 (1940).
+    /// </summary>
+    internal static double RunsTestZ(ReadOnlySpan<double> allVoltageV, ReadOnlySpan<double> residuals, bool[] used)
+    {
+        var order = new double[residuals.Length];
+        var res = residuals.ToArray();
+        for (int i = 0, u = 0; i < used.Length; i++) if (used[i]) order[u++] = allVoltageV[i];
+        Array.Sort(order, res);
+        return RunsTestZ(res);
+    }
+
+    /// <summary>Runs-test z of a sequence of residuals in the given order (zeros are skipped).</summary>
+    internal static double RunsTestZ(ReadOnlySpan<double> orderedResiduals)
+    {
+        int nPos = 0, nNeg = 0, runs = 0, last = 0;
+        foreach (double r in orderedResiduals)
+        {
+            int s = Math.Sign(r);
+            if (s == 0) continue;
+            if (s > 0) nPos++; else nNeg++;
+            if (s != last) runs++;
+            last = s;
+        }
+        double nTot = nPos + nNeg;
+        if (nPos == 0 || nNeg == 0) return nTot > 10 ? double.NegativeInfinity : 0.0;
+        double e = 2.0 * nPos * nNeg / nTot + 1.0;
+        double var = 2.0 * nPos * nNeg * (2.0 * nPos * nNeg - nTot) / (nTot * nTot * (nTot - 1.0));
+        return var > 0 ? (runs - e) / Math.Sqrt(var) : 0.0;
+    }
+
+    /// <summary>
+    /// Log-spaced grid over φ ∈ [0.2, 6] eV and d ∈ [0.3, 8] nm (only the free ones), the area profiled out when free.
+    /// Returns the best <paramref name="count"/> grid points that are not grid neighbours of a better one.
+    /// </summary>
+    private static List<double[]> GridStarts(JunctionCurrentModel model, double[] template, bool[] isFree,
+        double[] v, double[] y, double[] invSigma, int count)
+    {
+        int phiIndex = model.IndexOf(StandardParameters.BarrierHeight.Key);
+        int dIndex = model.IndexOf(StandardParameters.Thickness.Key);
+        int areaIndex = model.AreaIndex;
+        bool phiFree = phiIndex >= 0 && isFree[phiIndex];
+        bool dFree = dIndex >= 0 && isFree[dIndex];
+        bool areaFree = isFree[areaIndex];
+        const int gridSize = 16;
+        int nPhi = phiFree ? gridSize : 1, nD = dFree ? gridSize : 1;
+        var costs = new double[nPhi, nD];
+        var areas = new double[nPhi, nD];
+        var theta = (double[])template.Clone();
+        double eV = PhysicalConstants.JoulePerElectronVolt;
+        for (int a = 0; a < nPhi; a++)
+        {
+            if (phiFree) theta[phiIndex] = eV * 0.2 * Math.Pow(30.0, a / (gridSize - 1.0));
+            for (int b = 0; b < nD; b++)
+            {
+                if (dFree) theta[dIndex] = 0.3e-9 * Math.Pow(8.0 / 0.3, b / (gridSize - 1.0));
+                theta[areaIndex] = 1.0;
+                double sw = 0, swr = 0;
+                for (int i = 0; i < v.Length; i++)
+                {
+                    double w = invSigma[i] * invSigma[i];
+                    double r = y[i] - LogCurrentProblem.LogModel(model.Current(v[i], theta), v[i]);
+                    sw += w; swr += w * r;
+                }
+                double logArea = areaFree ? swr / sw : Math.Log(template[areaIndex]);
+                theta[areaIndex] = Math.Exp(logArea);
+                double cost = 0;
+                for (int i = 0; i < v.Length; i++)
+                {
+                    double r = (y[i] - LogCurrentProblem.LogModel(model.Current(v[i], theta), v[i])) * invSigma[i];
+                    cost += r * r;
+                }
+                costs[a, b] = double.IsFinite(cost) ? cost : double.PositiveInfinity;
+                areas[a, b] = theta[areaIndex];
+            }
+        }
+        var cells = new List<(double Cost, int A, int B)>(nPhi * nD);
+        for (int a = 0; a < nPhi; a++) for (int b = 0; b < nD; b++) cells.Add((costs[a, b], a, b));
+        cells.Sort((l, r) => l.Cost.CompareTo(r.Cost));
+        var chosen = new List<(int A, int B)>();
+        foreach (var cell in cells)
+        {
+            if (chosen.Count >= count) break;
+            bool neighbour = false;
+            foreach (var c in chosen) if (Math.Abs(c.A - cell.A) <= 1 && Math.Abs(c.B - cell.B) <= 1) { neighbour = true; break; }
+            if (!neighbour) chosen.Add((cell.A, cell.B));
+        }
+        var starts = new List<double[]>(chosen.Count);
+        foreach (var (a, b) in chosen)
+        {
+            var start = (double[])template.Clone();
+            if (phiFree) start[phiIndex] = eV * 0.2 * Math.Pow(30.0, a / (gridSize - 1.0));
+            if (dFree) start[dIndex] = 0.3e-9 * Math.Pow(8.0 / 0.3, b / (gridSize - 1.0));
+            if (areaFree) start[areaIndex] = areas[a, b];
+            starts.Add(start);
+        }
+        return starts;
+    }
+}

@@ -1,0 +1,147 @@
+using System.Buffers;
+using System.Text;
+using System.Text.Json;
+using JunctionFit.Results;
+
+namespace JunctionFit.Reporting;
+
+/// <summary>
+/// The one-line JSON form of a <see cref="FitResult"/> that scripts rely on (keys fixed by docs/cli.md):
+/// <c>file, model, status, error, warnings, parameters{key: {value, stderr, ci95, fixed}}, fit{...}</c>,
+/// followed by extension keys (<c>correlation</c>, <c>transition_voltage_V</c>, <c>lot</c>, <c>wafer</c>, <c>die_x</c>, <c>die_y</c>).
+/// </summary>
+public static class FitJsonFormatter
+{
+    /// <summary>Order of the leading parameter keys; others follow in model order.</summary>
+    private static readonly string[] LeadingKeys = ["barrier_height_eV", "thickness_nm", "area_m2", "mass_ratio"];
+
+    private static readonly JsonWriterOptions WriterOptions = new() { Indented = false, SkipValidation = false };
+
+    /// <summary>Formats a result as a single JSON line (no trailing newline).</summary>
+    public static string Format(FitResult result)
+    {
+        var buffer = new ArrayBufferWriter<byte>(1024);
+        Write(result, buffer);
+        return Encoding.UTF8.GetString(buffer.WrittenSpan);
+    }
+
+    /// <summary>Writes a result as JSON (one line, no newline) into <paramref name="output"/>.</summary>
+    public static void Write(FitResult result, IBufferWriter<byte> output)
+    {
+        ArgumentNullException.ThrowIfNull(result);
+        using var w = new Utf8JsonWriter(output, WriterOptions);
+        w.WriteStartObject();
+        w.WriteString("file", result.SourcePath);
+        w.WriteString("model", result.Model);
+        w.WriteString("status", StatusText(result.Status));
+        if (result.Error is null) w.WriteNull("error"); else w.WriteString("error", result.Error);
+        w.WriteStartArray("warnings");
+        foreach (var warning in result.Warnings) w.WriteStringValue(warning);
+        w.WriteEndArray();
+
+        w.WriteStartObject("parameters");
+        foreach (string key in LeadingKeys)
+        {
+            var p = result.Find(key);
+            if (p is not null) WriteParameter(w, p);
+        }
+        foreach (var p in result.Parameters)
+        {
+            if (Array.IndexOf(LeadingKeys, p.Key) < 0) WriteParameter(w, p);
+        }
+        w.WriteEndObject();
+
+        w.WriteStartObject("fit");
+        if (result.Quality is { } q)
+        {
+            w.WriteNumber("points_used", q.PointsUsed);
+            w.WriteNumber("points_masked", q.PointsMasked);
+            w.WriteNumber("iterations", q.Iterations);
+            WriteNumberOrNull(w, "rss", q.ResidualSumOfSquares);
+            WriteNumberOrNull(w, "reduced_chi2", q.ReducedChiSquare);
+            w.WriteBoolean("converged", q.Converged);
+            w.WriteString("stop_reason", q.StopReason);
+            w.WriteString("covariance_scaling", q.CovarianceScaling);
+            w.WriteString("interval_method", q.IntervalMethod);
+        }
+        else
+        {
+            w.WriteNull("points_used");
+            w.WriteNull("points_masked");
+            w.WriteNull("iterations");
+            w.WriteNull("rss");
+            w.WriteNull("reduced_chi2");
+            w.WriteBoolean("converged", false);
+        }
+        w.WriteEndObject();
+
+        w.WriteStartObject("correlation");
+        w.WriteStartArray("parameters");
+        foreach (var k in result.CorrelationKeys) w.WriteStringValue(k);
+        w.WriteEndArray();
+        w.WriteStartArray("matrix");
+        int nk = result.CorrelationKeys.Length;
+        if (result.CorrelationRowMajor.Length == nk * nk)
+        {
+            for (int a = 0; a < nk; a++)
+            {
+                w.WriteStartArray();
+                for (int b = 0; b < nk; b++) WriteNumberValueOrNull(w, Math.Round(result.CorrelationRowMajor[a * nk + b], 6));
+                w.WriteEndArray();
+            }
+        }
+        w.WriteEndArray();
+        w.WriteEndObject();
+
+        WriteNumberOrNull(w, "transition_voltage_V", result.TransitionVoltageV);
+        WriteStringOrNull(w, "lot", result.Lot);
+        WriteStringOrNull(w, "wafer", result.Wafer);
+        if (result.DieX is int x) w.WriteNumber("die_x", x); else w.WriteNull("die_x");
+        if (result.DieY is int y) w.WriteNumber("die_y", y); else w.WriteNull("die_y");
+        w.WriteEndObject();
+        w.Flush();
+    }
+
+    /// <summary>The status word used in JSON and tables: ok, poor-fit or failed.</summary>
+    public static string StatusText(FitStatus status) => status switch
+    {
+        FitStatus.Ok => "ok",
+        FitStatus.PoorFit => "poor-fit",
+        _ => "failed",
+    };
+
+    private static void WriteParameter(Utf8JsonWriter w, ParameterEstimate p)
+    {
+        w.WriteStartObject(p.Key);
+        WriteNumberOrNull(w, "value", p.Value);
+        WriteNumberOrNull(w, "stderr", p.StandardError);
+        if (p.Lower95 is double lo && p.Upper95 is double hi && double.IsFinite(lo) && double.IsFinite(hi))
+        {
+            w.WriteStartArray("ci95");
+            w.WriteNumberValue(lo);
+            w.WriteNumberValue(hi);
+            w.WriteEndArray();
+        }
+        else
+        {
+            w.WriteNull("ci95");
+        }
+        w.WriteBoolean("fixed", p.IsFixed);
+        w.WriteEndObject();
+    }
+
+    private static void WriteNumberOrNull(Utf8JsonWriter w, string name, double? value)
+    {
+        if (value is double v && double.IsFinite(v)) w.WriteNumber(name, v); else w.WriteNull(name);
+    }
+
+    private static void WriteNumberValueOrNull(Utf8JsonWriter w, double value)
+    {
+        if (double.IsFinite(value)) w.WriteNumberValue(value); else w.WriteNullValue();
+    }
+
+    private static void WriteStringOrNull(Utf8JsonWriter w, string name, string? value)
+    {
+        if (value is null) w.WriteNull(name); else w.WriteString(name, value);
+    }
+}

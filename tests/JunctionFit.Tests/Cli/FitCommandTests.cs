@@ -1,0 +1,145 @@
+using System.Diagnostics;
+using System.Text.Json;
+using Xunit;
+
+namespace JunctionFit.Tests.Cli;
+
+public class FitCommandTests
+{
+    private static string SimulateTo(TempFolder dir, string name, string phi, string d, string extra = "--noise 0.01 --seed 5")
+    {
+        var args = new List<string> { "simulate", "--model", "simmons", "--barrier-height", phi, "--thickness", d, "--area", "100",
+            "--from", "-1", "--to", "1", "--points", "201" };
+        args.AddRange(extra.Split(' ', StringSplitOptions.RemoveEmptyEntries));
+        var (code, output, err) = CliRunner.Run([.. args]);
+        Assert.True(code == 0, err);
+        string path = dir.File(name);
+        File.WriteAllText(path, output);
+        return path;
+    }
+
+    [Fact]
+    public void Simulate_NoNoise_WritesHeaderAndOddCurve()
+    {
+        var (code, output, _) = CliRunner.Run("simulate", "--barrier-height", "2", "--thickness", "1.5", "--area", "100",
+            "--from", "-0.5", "--to", "0.5", "--points", "11");
+        Assert.Equal(0, code);
+        var lines = output.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        Assert.Equal("Voltage (V),Current (A)", lines[0]);
+        Assert.Equal(12, lines.Length);
+        double first = double.Parse(lines[1].Split(',')[1], System.Globalization.CultureInfo.InvariantCulture);
+        double last = double.Parse(lines[^1].Split(',')[1], System.Globalization.CultureInfo.InvariantCulture);
+        Assert.Equal(-first, last, 15); // odd in V (Simmons 1963, symmetric barrier)
+    }
+
+    [Fact]
+    public void FitJson_AreaFixed_RecoversSimulatedBarrier()
+    {
+        // The acceptance case: φ = 2.1 eV, d = 1.6 nm, fit --json --area 100 recovers both within 0.02.
+        using var dir = new TempFolder();
+        string file = SimulateTo(dir, "km-a01-die.csv", "2.1", "1.6");
+        var (code, output, err) = CliRunner.Run("fit", file, "--json", "--area", "100");
+
+        Assert.True(code == 0, err);
+        var lines = output.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        Assert.Single(lines);
+        using var doc = JsonDocument.Parse(lines[0]);
+        var root = doc.RootElement;
+        Assert.Equal(file, root.GetProperty("file").GetString());
+        Assert.Equal("simmons", root.GetProperty("model").GetString());
+        Assert.Equal("ok", root.GetProperty("status").GetString());
+        Assert.Equal(JsonValueKind.Null, root.GetProperty("error").ValueKind);
+        var pars = root.GetProperty("parameters");
+        var phi = pars.GetProperty("barrier_height_eV");
+        var d = pars.GetProperty("thickness_nm");
+        Assert.InRange(phi.GetProperty("value").GetDouble(), 2.08, 2.12);
+        Assert.InRange(d.GetProperty("value").GetDouble(), 1.58, 1.62);
+        Assert.InRange(2.1, phi.GetProperty("ci95")[0].GetDouble(), phi.GetProperty("ci95")[1].GetDouble());
+        Assert.InRange(1.6, d.GetProperty("ci95")[0].GetDouble(), d.GetProperty("ci95")[1].GetDouble());
+        var area = pars.GetProperty("area_m2");
+        Assert.True(area.GetProperty("fixed").GetBoolean());
+        Assert.Equal(1e-10, area.GetProperty("value").GetDouble(), 20);
+        Assert.Equal(JsonValueKind.Null, area.GetProperty("ci95").ValueKind);
+        Assert.True(pars.GetProperty("mass_ratio").GetProperty("fixed").GetBoolean());
+        var fit = root.GetProperty("fit");
+        Assert.Equal(200, fit.GetProperty("points_used").GetInt32());
+        Assert.Equal(1, fit.GetProperty("points_masked").GetInt32());
+        Assert.True(fit.GetProperty("converged").GetBoolean());
+        Assert.True(fit.GetProperty("iterations").GetInt32() > 0);
+    }
+
+    [Fact]
+    public void Fit_GarbageFile_ExitTwoWithPathAndLineAndNoStackTrace()
+    {
+        using var dir = new TempFolder();
+        string garbage = dir.File("notes.csv");
+        File.WriteAllText(garbage, "this is a shopping list\nmilk, eggs\nbread\n");
+        var (code, output, err) = CliRunner.Run("fit", garbage);
+
+        Assert.Equal(2, code);
+        Assert.StartsWith(garbage + ":", err, StringComparison.Ordinal);
+        Assert.DoesNotContain("   at ", err, StringComparison.Ordinal);
+        Assert.DoesNotContain("Exception", err, StringComparison.Ordinal);
+        Assert.Equal(File.ReadAllText(garbage), "this is a shopping list\nmilk, eggs\nbread\n"); // input untouched
+        _ = output;
+    }
+
+    [Fact]
+    public void FitJson_OneGoodOneGarbage_ExitOneAndBothReported()
+    {
+        using var dir = new TempFolder();
+        string good = SimulateTo(dir, "a-good.csv", "2.0", "1.5");
+        string bad = dir.File("b-bad.csv");
+        File.WriteAllBytes(bad, [0, 1, 2, 255, 254, 0, 7]);
+        var (code, output, err) = CliRunner.Run("fit", dir.Path, "--json", "--area", "100");
+
+        Assert.Equal(1, code);
+        var lines = output.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        Assert.Equal(2, lines.Length);
+        using var first = JsonDocument.Parse(lines[0]);
+        using var second = JsonDocument.Parse(lines[1]);
+        Assert.Equal(good, first.RootElement.GetProperty("file").GetString());
+        Assert.Equal("ok", first.RootElement.GetProperty("status").GetString());
+        Assert.Equal("failed", second.RootElement.GetProperty("status").GetString());
+        Assert.False(string.IsNullOrWhiteSpace(second.RootElement.GetProperty("error").GetString()));
+        Assert.Contains(bad + ":", err, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Fit_UnknownOption_ExitTwo()
+    {
+        var (code, _, err) = CliRunner.Run("fit", "x.csv", "--frobnicate");
+        Assert.Equal(2, code);
+        Assert.Contains("--frobnicate", err, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Fit_BadAreaValue_ExitTwoNamingTheOption()
+    {
+        var (code, _, err) = CliRunner.Run("fit", "x.csv", "--area", "lots");
+        Assert.Equal(2, code);
+        Assert.Contains("--area", err, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Process_FitJsonOnGarbage_RealExitCodeAndNoStackTrace()
+    {
+        // The built tool as a user runs it: a separate process, real exit code, nothing but messages on stderr.
+        using var dir = new TempFolder();
+        string garbage = dir.File("garbage.csv");
+        File.WriteAllText(garbage, "\u0001\u0002 not a table at all\n");
+        string tool = Path.Combine(AppContext.BaseDirectory, "junctionfit.dll");
+        var info = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
+        foreach (var a in new[] { tool, "fit", garbage, "--json" }) info.ArgumentList.Add(a);
+        using var process = Process.Start(info)!;
+        string stdout = process.StandardOutput.ReadToEnd();
+        string stderr = process.StandardError.ReadToEnd();
+        process.WaitForExit();
+
+        Assert.Equal(2, process.ExitCode);
+        Assert.Contains(garbage + ":", stderr, StringComparison.Ordinal);
+        Assert.DoesNotContain("   at ", stderr, StringComparison.Ordinal);
+        using var doc = JsonDocument.Parse(stdout.Trim());
+        Assert.Equal("failed", doc.RootElement.GetProperty("status").GetString());
+    }
+}

@@ -1,0 +1,101 @@
+using System.Collections.Immutable;
+using JunctionFit.Fitting;
+using JunctionFit.Import;
+using JunctionFit.Physics;
+using JunctionFit.Results;
+using Xunit;
+
+namespace JunctionFit.Tests.Fitting;
+
+public class JunctionFitterTests
+{
+    private const double Ev = PhysicalConstants.JoulePerElectronVolt;
+    private static readonly JunctionCurrentModel Model = new(SimmonsRectangularModel.Instance);
+
+    internal static IvCurve Simulate(double phiEv, double dNm, double areaUm2, double relNoise, int seed,
+        double fromV = -1.0, double toV = 1.0, int points = 201, double massRatio = 1.0)
+    {
+        double[] theta = [phiEv * Ev, dNm * 1e-9, massRatio, areaUm2 * 1e-12];
+        var (v, i) = IvSimulator.Simulate(Model, theta, new SimulationSpec(fromV, toV, points) { RelativeNoise = relNoise, Seed = seed });
+        return new IvCurve($"sim-{seed}.csv", v, i);
+    }
+
+    [Fact]
+    public void Fit_AreaKnown_RecoversBarrierInsideIntervals()
+    {
+        // Truth from the acceptance case: φ = 2.1 eV, d = 1.6 nm, area 100 µm², 1 % noise.
+        var curve = Simulate(2.1, 1.6, 100, 0.01, seed: 7);
+        var options = FitOptions.Default with { FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", 100e-12) };
+        var result = JunctionFitter.Fit(curve, Model, options);
+
+        Assert.Equal(FitStatus.Ok, result.Status);
+        var phi = result.Find("barrier_height_eV")!;
+        var d = result.Find("thickness_nm")!;
+        Assert.InRange(phi.Value, 2.08, 2.12);
+        Assert.InRange(d.Value, 1.58, 1.62);
+        Assert.InRange(2.1, phi.Lower95!.Value, phi.Upper95!.Value);
+        Assert.InRange(1.6, d.Lower95!.Value, d.Upper95!.Value);
+        Assert.True(result.Find("area_m2")!.IsFixed);
+        Assert.True(result.Find("mass_ratio")!.IsFixed);
+        Assert.Equal(201 - 1, result.Quality!.PointsUsed); // V = 0 is masked
+        Assert.Equal(1, result.Quality.PointsMasked);
+    }
+
+    [Fact]
+    public void Fit_AreaFree_IntervalsContainTruthAndStayPositive()
+    {
+        var curve = Simulate(2.0, 1.5, 100, 0.01, seed: 11, fromV: -1.2, toV: 1.2);
+        var result = JunctionFitter.Fit(curve, Model, FitOptions.Default);
+
+        Assert.NotEqual(FitStatus.Failed, result.Status);
+        foreach (var (key, truth) in new[] { ("barrier_height_eV", 2.0), ("thickness_nm", 1.5), ("area_m2", 100e-12) })
+        {
+            var p = result.Find(key)!;
+            Assert.False(p.IsFixed);
+            Assert.True(p.Lower95 > 0, $"{key} interval must stay positive");
+            Assert.InRange(truth, p.Lower95!.Value, p.Upper95!.Value);
+        }
+        Assert.Equal(9, result.CorrelationRowMajor.Length);
+    }
+
+    [Fact]
+    public void Fit_NoUsablePoints_FailsWithReason()
+    {
+        var v = ImmutableArray.Create(-0.1, 0.0, 0.1, 0.2);
+        var i = ImmutableArray.Create(0.0, 0.0, 0.0, 0.0);
+        var result = JunctionFitter.Fit(new IvCurve("zeros.csv", v, i), Model, FitOptions.Default);
+
+        Assert.Equal(FitStatus.Failed, result.Status);
+        Assert.Contains("usable", result.Error, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Fit_OhmicLeakageDominatesLowBias_ReportsPoorFit()
+    {
+        // A tunnelling curve plus a 1 MΩ ohmic leak path: at low bias the leak dominates and the Simmons model
+        // cannot follow the shape, so the residual signs cluster.
+        var clean = Simulate(2.2, 1.8, 100, 0.0, seed: 3);
+        var leaky = clean.CurrentA.Select((c, k) => c + clean.VoltageV[k] / 1e6).ToImmutableArray();
+        var noisy = leaky.Select((c, k) => c * (1 + 0.002 * Math.Sin(12.9898 * k))).ToImmutableArray();
+        var options = FitOptions.Default with { FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", 100e-12) };
+        var result = JunctionFitter.Fit(new IvCurve("leaky.csv", clean.VoltageV, noisy), Model, options);
+
+        Assert.Equal(FitStatus.PoorFit, result.Status);
+        Assert.Contains(result.Warnings, w => w.Contains("systematic misfit", StringComparison.Ordinal));
+    }
+
+    [Fact]
+    public void RunsTestZ_EightSignsInTwoRuns_MatchesFormula()
+    {
+        // Wald & Wolfowitz (1940): n₊ = n₋ = 4, R = 2 → E = 5, Var = 2·16·(32 − 8)/(64·7) = 12/7, z = −3/√(12/7).
+        double z = JunctionFitter.RunsTestZ([1, 1, 1, 1, -1, -1, -1, -1]);
+        Assert.Equal(-3.0 / Math.Sqrt(12.0 / 7.0), z, 12);
+    }
+
+    [Fact]
+    public void RunsTestZ_AlternatingSigns_IsPositive()
+    {
+        double z = JunctionFitter.RunsTestZ([1, -1, 1, -1, 1, -1, 1, -1, 1, -1]);
+        Assert.True(z > 2);
+    }
+}
