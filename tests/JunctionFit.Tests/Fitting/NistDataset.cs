@@ -20,6 +20,11 @@ internal sealed class NistDataset
     public required double[] Predictors { get; init; }
     public required int PredictorCount { get; init; }
 
+    /// <summary>The responses and predictors as written in the data file, for exact double-double conversion.</summary>
+    public required string[] YText { get; init; }
+
+    public required string[] PredictorText { get; init; }
+
     public int ParameterCount => CertifiedValues.Length;
     public int ObservationCount => Y.Length;
 
@@ -55,6 +60,8 @@ internal sealed class NistDataset
         double rss = double.NaN;
         var y = new List<double>();
         var x = new List<double>();
+        var yText = new List<string>();
+        var xText = new List<string>();
         int predictors = 0;
         int rows = -1;
         foreach (string line in lines)
@@ -68,9 +75,11 @@ internal sealed class NistDataset
             if (rows >= 0)
             {
                 y.Add(D(t[0]));
+                yText.Add(t[0]);
                 for (int k = 1; k <= predictors; k++)
                 {
                     x.Add(D(t[k]));
+                    xText.Add(t[k]);
                 }
 
                 continue;
@@ -112,6 +121,8 @@ internal sealed class NistDataset
             Y = [.. y],
             Predictors = [.. x],
             PredictorCount = predictors,
+            YText = [.. yText],
+            PredictorText = [.. xText],
         };
     }
 }
