@@ -364,6 +364,25 @@ public static class LevenbergMarquardtSolver
                         return Finish(fnorm, iterations, SolverTermination.ZeroResidual, "The residuals are exactly zero.", current);
                     }
 
+                    // A non-finite trial says nothing about convergence: only shrink, and give up
+                    // when the region has collapsed to rounding size around x.
+                    if (!finite)
+                    {
+                        if (_evaluations >= _maxEvaluations)
+                        {
+                            return Finish(fnorm, iterations, SolverTermination.EvaluationLimit,
+                                Format("Stopped after the limit of {0} residual evaluations; the last trial steps gave NaN or infinite residuals.", _maxEvaluations), current);
+                        }
+
+                        if (delta <= Eps * Math.Max(xnorm, 1.0))
+                        {
+                            return Finish(fnorm, iterations, SolverTermination.NonFinite,
+                                "Every trial step gave NaN or infinite residuals, down to a step of machine-precision size; the model cannot be evaluated near the current point.", current);
+                        }
+
+                        continue;
+                    }
+
                     // Convergence tests.
                     bool reduction = Math.Abs(actual) <= ftol && predicted <= ftol && 0.5 * ratio <= 1.0;
                     bool step = delta <= xtol * xnorm;
@@ -390,12 +409,6 @@ public static class LevenbergMarquardtSolver
                     {
                         return Finish(fnorm, iterations, SolverTermination.EvaluationLimit,
                             Format("Stopped after the limit of {0} residual evaluations before the convergence tests were met.", _maxEvaluations), current);
-                    }
-
-                    if (!finite && delta <= Eps * Math.Max(xnorm, 1.0))
-                    {
-                        return Finish(fnorm, iterations, SolverTermination.NonFinite,
-                            "Every trial step gave NaN or infinite residuals, down to a step of machine-precision size; the model cannot be evaluated near the current point.", current);
                     }
 
                     if (Math.Abs(actual) <= Eps && predicted <= Eps && 0.5 * ratio <= 1.0)
