@@ -80,8 +80,10 @@ internal sealed class FitRun(CliContext context, JunctionCurrentModel model, Fit
         {
             string csv = Path.Combine(outDir, "summary.csv");
             string html = Path.Combine(outDir, "report.html");
-            SummaryTableWriter.WriteCsv(summaries, csv);
-            HtmlReportWriter.Write(summaries, plotFiles, html, new ReportContext(VersionInfo.Text, optionSummary));
+            SummaryTableWriter.WriteCsv(csv, summaries);
+            var entries = new List<HtmlReportEntry>(summaries.Count);
+            for (int k = 0; k < summaries.Count; k++) entries.Add(new HtmlReportEntry(summaries[k]) { PlotPath = plotFiles[k] });
+            HtmlReportWriter.Write(html, new HtmlRunInfo(VersionInfo.Text, DateTimeOffset.Now, model.Barrier.Name, optionSummary), entries);
             context.Error.WriteLine($"junctionfit: wrote {plotFiles.Count(p => p is not null)} plot(s), {csv} and {html}");
         }
         if (fitted == 0) return ExitCodes.UsageOrInput;

@@ -218,16 +218,27 @@ public static class JunctionFitter
             for (int a = 0; a < nFree; a++)
             for (int b = 0; b < nFree; b++)
                 corr.Add(covX[a, b] / Math.Sqrt(covX[a, a] * covX[b, b]));
+            var pairs = new List<string>();
+            var involved = new SortedSet<int>();
             for (int a = 0; a < nFree; a++)
             for (int b = a + 1; b < nFree; b++)
             {
                 double rho = corr[a * nFree + b];
                 if (Math.Abs(rho) > CorrelationWarningThreshold)
                 {
-                    warnings.Add((
-                        $"{defs[freeIndex[a]].Description} and {defs[freeIndex[b]].Description} are not separable by these data (correlation {rho:0.0000}); " +
-                        $"their intervals are wide. Remedy: {Remedy(defs[freeIndex[a]].Key, defs[freeIndex[b]].Key)}"));
+                    pairs.Add($"{defs[freeIndex[a]].Description} / {defs[freeIndex[b]].Description} {rho:0.0000}");
+                    involved.Add(freeIndex[a]);
+                    involved.Add(freeIndex[b]);
                 }
+            }
+            if (pairs.Count > 0)
+            {
+                bool areaInvolved = involved.Contains(model.AreaIndex);
+                string remedy = areaInvolved
+                    ? "fix the area from the lithography (--area or --area-from-file), or widen the bias range so that the curvature of I(V) pins the barrier"
+                    : Remedy(defs[involved.Min].Key, defs[involved.Max].Key);
+                warnings.Add($"not identifiable: these data cannot separate {string.Join(", ", involved.Select(k => defs[k].Description))} " +
+                             $"(correlation {string.Join("; ", pairs)}); their intervals are wide. Remedy: {remedy}");
             }
             if (condition > ConditionWarningThreshold)
             {
