@@ -108,9 +108,17 @@ internal sealed class FitRun(CliContext context, JunctionCurrentModel model, Fit
         return new Outcome(JunctionFitter.Fit(curve, model, options), null);
     }
 
+    /// <summary>
+    /// A plot file name from the input path relative to the working directory, folders joined by '_'
+    /// (lot/wafer/die_3_4.csv → lot_wafer_die_3_4.png), made unique within the run.
+    /// </summary>
     private static string UniquePlotName(string sourcePath, HashSet<string> used)
     {
-        string stem = Path.GetFileNameWithoutExtension(sourcePath);
+        string relative = Path.GetRelativePath(Directory.GetCurrentDirectory(), sourcePath);
+        if (relative.StartsWith("..", StringComparison.Ordinal) || Path.IsPathRooted(relative)) relative = Path.GetFileName(sourcePath);
+        string withoutExt = Path.ChangeExtension(relative, null) ?? relative;
+        string stem = withoutExt.Replace(Path.DirectorySeparatorChar, '_').Replace(Path.AltDirectorySeparatorChar, '_').TrimStart('.', '_');
+        if (stem.Length == 0) stem = "fit";
         foreach (char c in Path.GetInvalidFileNameChars()) stem = stem.Replace(c, '_');
         string name = stem + ".png";
         for (int i = 2; !used.Add(name); i++) name = $"{stem}-{i}.png";
