@@ -199,7 +199,7 @@ internal static class IvTableParser
                 int bestCount = 0;
                 foreach (char delim in candidates)
                 {
-                    Classify(line, delim, out int count, out int numeric, out int textual);
+                    Classify(line, delim, out int count, out int numeric, out int textual, out int raw);
                     if (numeric < 2)
                     {
                         if (numeric == 1 && count == 1 && firstOneColumn < 0)
@@ -208,26 +208,29 @@ internal static class IvTableParser
                         }
                         continue;
                     }
+                    // The next row must look like data too (same number of fields, numbers outnumber
+                    // text); of the two after it, one may be a bad row (NaN, a missing cell).
                     int score = numeric - textual;
-                    int needed = SampleRows - 1;
-                    bool ok = true;
-                    for (int j = i + 1; j < lines.Count && needed > 0; j++)
+                    int checkedRows = 0;
+                    int bad = 0;
+                    for (int j = i + 1; j < lines.Count && checkedRows < SampleRows; j++)
                     {
                         ReadOnlySpan<char> next = Line(j);
                         if (next.IsWhiteSpace() || MetadataParser.IsComment(next))
                         {
                             continue;
                         }
-                        Classify(next, delim, out int c2, out int n2, out int t2);
-                        if (n2 < 2 || c2 != count)
+                        Classify(next, delim, out _, out int n2, out int t2, out int raw2);
+                        bool valid = raw2 == raw && n2 >= 1 && n2 >= t2;
+                        if (!valid && (checkedRows == 0 || ++bad > 1))
                         {
-                            ok = false;
+                            bad = int.MaxValue;
                             break;
                         }
                         score += n2 - t2;
-                        needed--;
+                        checkedRows++;
                     }
-                    if (ok && score > bestScore)
+                    if (bad <= 1 && score > bestScore)
                     {
                         bestScore = score;
                         best = delim;
@@ -252,6 +255,9 @@ internal static class IvTableParser
         }
 
         private void Classify(ReadOnlySpan<char> line, char delim, out int count, out int numeric, out int textual)
+            => Classify(line, delim, out count, out numeric, out textual, out _);
+
+        private void Classify(ReadOnlySpan<char> line, char delim, out int count, out int numeric, out int textual, out int raw)
         {
             count = 0;
             numeric = 0;
@@ -279,6 +285,7 @@ internal static class IvTableParser
                     break;
                 }
             }
+            raw = count;
             count = lastNonEmpty;
         }
 
@@ -314,6 +321,26 @@ internal static class IvTableParser
             while (fields.Count > 0 && fields[^1].Text.Length == 0)
             {
                 fields.RemoveAt(fields.Count - 1);
+            }
+            if (delim == ' ')
+            {
+                // "U (V) I (A)": a bracketed unit written after a space belongs to the name before it.
+                for (int k = fields.Count - 1; k > 0; k--)
+                {
+                    string t = fields[k].Text;
+                    if (t.Length > 1 && t[0] is '(' or '[' or '{' && t[^1] is ')' or ']' or '}')
+                    {
+                        fields[k - 1] = HeaderParser.Parse(k - 1, fields[k - 1].Text + " " + t);
+                        fields.RemoveAt(k);
+                    }
+                }
+                for (int k = 0; k < fields.Count; k++)
+                {
+                    if (fields[k].Index != k)
+                    {
+                        fields[k] = fields[k] with { Index = k };
+                    }
+                }
             }
             return fields;
         }
