@@ -76,7 +76,7 @@ internal static class IvTableParser
         for (int i = 0; i < sample; i++)
         {
             char c = text[i];
-            if ((c < ' ' && c is not ('\t' or '\n' or '\r' or '\f' or '\v')) || c == '\u007F' || c == '\uFFFD')
+            if ((c < ' ' && c is not ('\t' or '\n' or '\r' or '\f' or '\v' or '\u001A')) || c == '\u007F' || c == '\uFFFD')
             {
                 controls++;
                 if (first < 0)
@@ -85,9 +85,9 @@ internal static class IvTableParser
                 }
             }
         }
-        // More than 1 % control characters, or more than 32 of them, is not a table of text
-        // (common practice, no source).
-        if (controls > 32 || (controls > 0 && controls * 100 > sample))
+        // More than 32 control characters, or at least 4 making up more than 1 %, is not a table
+        // of text (common practice, no source). SUB (0x1A, an old end-of-file mark) is allowed.
+        if (controls > 32 || (controls >= 4 && controls * 100 > sample))
         {
             throw new IvFormatException(path, LineOf(text, first), $"binary content ({controls} control characters in the first {sample} characters): this is not a text file");
         }
@@ -208,8 +208,8 @@ internal static class IvTableParser
                         }
                         continue;
                     }
-                    // The next row must look like data too (same number of fields, numbers outnumber
-                    // text); of the two after it, one may be a bad row (NaN, a missing cell).
+                    // The following rows must look like data too (same number of fields, numbers
+                    // outnumber text); one of the next three may be a damaged row.
                     int score = numeric - textual;
                     int checkedRows = 0;
                     int bad = 0;
@@ -222,10 +222,16 @@ internal static class IvTableParser
                         }
                         Classify(next, delim, out _, out int n2, out int t2, out int raw2);
                         bool valid = raw2 == raw && n2 >= 1 && n2 >= t2;
-                        if (!valid && (checkedRows == 0 || ++bad > 1))
+                        if (!valid)
                         {
-                            bad = int.MaxValue;
-                            break;
+                            // A row without digits right after the candidate (a header) means the
+                            // candidate is preamble; a row with digits may be a damaged data row.
+                            bool texty = !next.ContainsAnyInRange('0', '9');
+                            if ((texty && checkedRows == 0) || ++bad > 1)
+                            {
+                                bad = int.MaxValue;
+                                break;
+                            }
                         }
                         score += n2 - t2;
                         checkedRows++;
