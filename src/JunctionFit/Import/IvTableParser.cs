@@ -134,7 +134,8 @@ internal static class IvTableParser
             {
                 ReadOnlySpan<char> hl = Line(h);
                 bool comment = MetadataParser.IsComment(hl);
-                if (!comment && IsUnitsRow(hl, dataCount, out List<HeaderField>? unitsFields))
+                // A units row may start with '#' (the unit of an index column), so it is tried first.
+                if (IsUnitsRow(hl, dataCount, out List<HeaderField>? unitsFields))
                 {
                     int h2 = PreviousNonBlank(h - 1);
                     if (h2 >= 0 && !MetadataParser.IsComment(Line(h2)) && TryHeader(Line(h2), dataCount, requireBoth: false, out List<HeaderField>? above))
@@ -187,6 +188,10 @@ internal static class IvTableParser
         {
             ReadOnlySpan<char> candidates = options.Delimiter is char d ? [d] : CandidateDelimiters;
             int firstOneColumn = -1;
+            // Pass 0 wants more numbers than words in the first row ("Sweep 1 of 2" is not data);
+            // pass 1 accepts as many words as numbers (rows with status and comment columns).
+            for (int pass = 0; pass < 2; pass++)
+            {
             for (int i = 0; i < lines.Count; i++)
             {
                 ReadOnlySpan<char> line = Line(i);
@@ -200,7 +205,7 @@ internal static class IvTableParser
                 foreach (char delim in candidates)
                 {
                     Classify(line, delim, out int count, out int numeric, out int textual, out int raw);
-                    if (numeric < 2)
+                    if (numeric < 2 || (pass == 0 && numeric <= textual))
                     {
                         if (numeric == 1 && count == 1 && firstOneColumn < 0)
                         {
@@ -226,7 +231,8 @@ internal static class IvTableParser
                         {
                             // A row without digits right after the candidate (a header) means the
                             // candidate is preamble; a row with digits may be a damaged data row.
-                            bool texty = !next.ContainsAnyInRange('0', '9');
+                            // So does a row of two or more words and no numbers (a header).
+                            bool texty = !next.ContainsAnyInRange('0', '9') || (n2 == 0 && t2 >= 2);
                             if ((texty && checkedRows == 0) || ++bad > 1)
                             {
                                 bad = int.MaxValue;
@@ -248,6 +254,7 @@ internal static class IvTableParser
                     _delimiter = best;
                     return (i, bestCount);
                 }
+            }
             }
 
             if (firstOneColumn >= 0)
