@@ -136,28 +136,32 @@ internal static class HeaderParser
             }
         }
 
+        int sp = text.LastIndexOf(' ');
+        if (sp > 0 && IsColumnUnit(text.AsSpan(sp + 1)))
+        {
+            return (text[..sp].Trim(), text[(sp + 1)..]);
+        }
+
         for (int i = text.IndexOf('/'); i > 0; i = text.IndexOf('/', i + 1))
         {
             string rest = text[(i + 1)..];
-            if (UnitParser.TryParse(rest, out _))
+            if (IsColumnUnit(rest))
             {
                 return (text[..i].Trim(), rest.Trim());
             }
         }
 
         int us = text.LastIndexOf('_');
-        if (us > 0 && us < text.Length - 1 && UnitParser.TryParse(text.AsSpan(us + 1), out _))
+        if (us > 0 && us < text.Length - 1 && IsColumnUnit(text.AsSpan(us + 1)))
         {
             return (text[..us].Trim(), text[(us + 1)..]);
         }
 
-        int sp = text.LastIndexOf(' ');
-        if (sp > 0 && UnitParser.TryParse(text.AsSpan(sp + 1), out _))
-        {
-            return (text[..sp].Trim(), text[(sp + 1)..]);
-        }
         return (text, null);
     }
+
+    private static bool IsColumnUnit(ReadOnlySpan<char> text)
+        => UnitParser.TryParse(text, out UnitScale u) && u.Kind is QuantityKind.Voltage or QuantityKind.Current or QuantityKind.CurrentDensity;
 
     /// <summary>Header text with a surrounding quote pair's doubled quotes undone.</summary>
     public static string Unescape(ReadOnlySpan<char> field, bool quoted)

@@ -81,6 +81,12 @@ public static class IvFileReader
             throw new IvFormatException(path, 0, $"cannot read the file: {e.Message}");
         }
 
+        return ParseBytes(bytes, path, fullPath, o);
+    }
+
+    /// <summary>The byte-level part of <see cref="ReadFile"/>: line-length guard, decoding, parsing.</summary>
+    internal static ParseOutcome ParseBytes(byte[] bytes, string path, string matchPath, IvReadOptions o)
+    {
         if (bytes.Length >= 2 && !(bytes[0] is 0xFF or 0xFE) && TextDecoder.LongestByteRun(bytes) is int run && run > 4L * o.MaxLineLength)
         {
             // Refuse an over-long line before decoding it (UTF-8 takes at most four bytes a character).
@@ -89,7 +95,7 @@ public static class IvFileReader
         }
 
         string text = TextDecoder.Decode(bytes, out string encoding);
-        return IvTableParser.Parse(text, path, fullPath, o, encoding);
+        return IvTableParser.Parse(text, path, matchPath, o, encoding);
     }
 
     private static int LineOfLongRun(ReadOnlySpan<byte> bytes, int maxLineLength)

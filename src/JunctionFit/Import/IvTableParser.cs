@@ -76,7 +76,7 @@ internal static class IvTableParser
         for (int i = 0; i < sample; i++)
         {
             char c = text[i];
-            if ((c < ' ' && c is not ('\t' or '\n' or '\r' or '\f' or '\v')) || c == '\u007F' || c == '\uFFFD')
+            if ((c < ' ' && c is not ('\t' or '\n' or '\r' or '\f' or '\v' or '\u001A')) || c == '\u007F' || c == '\uFFFD')
             {
                 controls++;
                 if (first < 0)
@@ -85,9 +85,9 @@ internal static class IvTableParser
                 }
             }
         }
-        // More than 1 % control characters, or more than 32 of them, is not a table of text
-        // (common practice, no source).
-        if (controls > 32 || (controls > 0 && controls * 100 > sample))
+        // More than 32 control characters, or at least 4 making up more than 1 %, is not a table
+        // of text (common practice, no source). SUB (0x1A, an old end-of-file mark) is allowed.
+        if (controls > 32 || (controls >= 4 && controls * 100 > sample))
         {
             throw new IvFormatException(path, LineOf(text, first), $"binary content ({controls} control characters in the first {sample} characters): this is not a text file");
         }
@@ -134,7 +134,8 @@ internal static class IvTableParser
             {
                 ReadOnlySpan<char> hl = Line(h);
                 bool comment = MetadataParser.IsComment(hl);
-                if (!comment && IsUnitsRow(hl, dataCount, out List<HeaderField>? unitsFields))
+                // A units row may start with '#' (the unit of an index column), so it is tried first.
+                if (IsUnitsRow(hl, dataCount, out List<HeaderField>? unitsFields))
                 {
                     int h2 = PreviousNonBlank(h - 1);
                     if (h2 >= 0 && !MetadataParser.IsComment(Line(h2)) && TryHeader(Line(h2), dataCount, requireBoth: false, out List<HeaderField>? above))
@@ -187,6 +188,10 @@ internal static class IvTableParser
         {
             ReadOnlySpan<char> candidates = options.Delimiter is char d ? [d] : CandidateDelimiters;
             int firstOneColumn = -1;
+            // Pass 0 wants more numbers than words in the first row ("Sweep 1 of 2" is not data);
+            // pass 1 accepts as many words as numbers (rows with status and comment columns).
+            for (int pass = 0; pass < 2; pass++)
+            {
             for (int i = 0; i < lines.Count; i++)
             {
                 ReadOnlySpan<char> line = Line(i);
@@ -199,8 +204,8 @@ internal static class IvTableParser
                 int bestCount = 0;
                 foreach (char delim in candidates)
                 {
-                    Classify(line, delim, out int count, out int numeric, out int textual);
-                    if (numeric < 2)
+                    Classify(line, delim, out int count, out int numeric, out int textual, out int raw);
+                    if (numeric < 2 || (pass == 0 && numeric <= textual))
                     {
                         if (numeric == 1 && count == 1 && firstOneColumn < 0)
                         {
@@ -208,26 +213,36 @@ internal static class IvTableParser
                         }
                         continue;
                     }
+                    // The following rows must look like data too (same number of fields, numbers
+                    // outnumber text); one of the next three may be a damaged row.
                     int score = numeric - textual;
-                    int needed = SampleRows - 1;
-                    bool ok = true;
-                    for (int j = i + 1; j < lines.Count && needed > 0; j++)
+                    int checkedRows = 0;
+                    int bad = 0;
+                    for (int j = i + 1; j < lines.Count && checkedRows < SampleRows; j++)
                     {
                         ReadOnlySpan<char> next = Line(j);
                         if (next.IsWhiteSpace() || MetadataParser.IsComment(next))
                         {
                             continue;
                         }
-                        Classify(next, delim, out int c2, out int n2, out int t2);
-                        if (n2 < 2 || c2 != count)
+                        Classify(next, delim, out _, out int n2, out int t2, out int raw2);
+                        bool valid = raw2 == raw && n2 >= 1 && n2 >= t2;
+                        if (!valid)
                         {
-                            ok = false;
-                            break;
+                            // A row without digits right after the candidate (a header) means the
+                            // candidate is preamble; a row with digits may be a damaged data row.
+                            // So does a row of two or more words and no numbers (a header).
+                            bool texty = !next.ContainsAnyInRange('0', '9') || (n2 == 0 && t2 >= 2);
+                            if ((texty && checkedRows == 0) || ++bad > 1)
+                            {
+                                bad = int.MaxValue;
+                                break;
+                            }
                         }
                         score += n2 - t2;
-                        needed--;
+                        checkedRows++;
                     }
-                    if (ok && score > bestScore)
+                    if (bad <= 1 && score > bestScore)
                     {
                         bestScore = score;
                         best = delim;
@@ -239,6 +254,7 @@ internal static class IvTableParser
                     _delimiter = best;
                     return (i, bestCount);
                 }
+            }
             }
 
             if (firstOneColumn >= 0)
@@ -252,6 +268,9 @@ internal static class IvTableParser
         }
 
         private void Classify(ReadOnlySpan<char> line, char delim, out int count, out int numeric, out int textual)
+            => Classify(line, delim, out count, out numeric, out textual, out _);
+
+        private void Classify(ReadOnlySpan<char> line, char delim, out int count, out int numeric, out int textual, out int raw)
         {
             count = 0;
             numeric = 0;
@@ -279,6 +298,7 @@ internal static class IvTableParser
                     break;
                 }
             }
+            raw = count;
             count = lastNonEmpty;
         }
 
@@ -314,6 +334,26 @@ internal static class IvTableParser
             while (fields.Count > 0 && fields[^1].Text.Length == 0)
             {
                 fields.RemoveAt(fields.Count - 1);
+            }
+            if (delim == ' ')
+            {
+                // "U (V) I (A)": a bracketed unit written after a space belongs to the name before it.
+                for (int k = fields.Count - 1; k > 0; k--)
+                {
+                    string t = fields[k].Text;
+                    if (t.Length > 1 && t[0] is '(' or '[' or '{' && t[^1] is ')' or ']' or '}')
+                    {
+                        fields[k - 1] = HeaderParser.Parse(k - 1, fields[k - 1].Text + " " + t);
+                        fields.RemoveAt(k);
+                    }
+                }
+                for (int k = 0; k < fields.Count; k++)
+                {
+                    if (fields[k].Index != k)
+                    {
+                        fields[k] = fields[k] with { Index = k };
+                    }
+                }
             }
             return fields;
         }
