@@ -21,7 +21,7 @@ public static class BarrierModelCatalog
     public const string Wkb = "wkb";
 
     /// <summary>All model names, in the order of the documentation.</summary>
-    public static IReadOnlyList<string> Names { get; } = [Simmons, Bdr, FowlerNordheim];
+    public static IReadOnlyList<string> Names { get; } = [Simmons, SimmonsImage, Bdr, FowlerNordheim, Wkb];
 
     /// <summary>Builds the model called <paramref name="name"/>.</summary>
     /// <param name="name">One of <see cref="Names"/> (case-insensitive).</param>
@@ -35,8 +35,10 @@ public static class BarrierModelCatalog
         IBarrierModel model = name.Trim().ToLowerInvariant() switch
         {
             Simmons => SimmonsRectangularModel.Instance,
+            SimmonsImage => new SimmonsImageForceModel(options.RelativePermittivity),
             Bdr => BrinkmanDynesRowellModel.Instance,
             FowlerNordheim => FowlerNordheimModel.Instance,
+            Wkb => new WkbModel(options),
             _ => throw new ArgumentException($"unknown model '{name}'; known models: {string.Join(", ", Names)}", nameof(name)),
         };
         if (model is IThermalDecay && options.TemperatureK is { } t && t > 0)
