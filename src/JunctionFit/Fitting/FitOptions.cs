@@ -44,7 +44,7 @@ public sealed record FitOptions
     };
 
     /// <summary>Number of grid starts refined by the solver (multi-start), at least 1.</summary>
-    public int Starts { get; init => field = Guard.AtLeast(value, 1); } = 3;
+    public int Starts { get; init => field = Guard.AtLeast(value, 1); } = 2;
 
     /// <summary>Default options: area, φ and d free, mass ratio fixed at 1, noise unknown.</summary>
     public static FitOptions Default { get; } = new();

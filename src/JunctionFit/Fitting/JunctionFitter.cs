@@ -134,14 +134,19 @@ public static class JunctionFitter
         }
 
         // ---- data-driven start and multi-start LM -------------------------------------------------------
-        var problem = new LogCurrentProblem(model, vUsed, yUsed, invSigma, freeIndex, theta);
+        for (int k = 0; k < p; k++) theta[k] = ParameterTransforms.Inside(defs[k], theta[k]);
+        bool profileArea = isFree[model.AreaIndex] && !model.Parasitics.Any;
+        int[] iterIndex = profileArea ? Array.FindAll(freeIndex, k => k != model.AreaIndex) : freeIndex;
+        var problem = new LogCurrentProblem(model, vUsed, yUsed, invSigma, iterIndex, theta, profileArea);
         var starts = GridStarts(model, theta, isFree, vUsed, yUsed, invSigma, options.Starts);
         LeastSquaresSolution? best = null;
+        int iterations = 0;
         foreach (var start in starts)
         {
-            var x0 = new double[nFree];
-            for (int j = 0; j < nFree; j++) x0[j] = Math.Log(start[freeIndex[j]]);
+            var x0 = new double[iterIndex.Length];
+            for (int j = 0; j < iterIndex.Length; j++) x0[j] = ParameterTransforms.ToSolver(defs[iterIndex[j]], start[iterIndex[j]]);
             var solution = LevenbergMarquardtSolver.Minimize(problem, x0, options.Solver);
+            iterations += solution.Iterations;
             if (!double.IsFinite(solution.ResidualSumOfSquares)) continue;
             if (best is null || solution.ResidualSumOfSquares < best.ResidualSumOfSquares) best = solution;
         }
@@ -151,9 +156,30 @@ public static class JunctionFitter
                 "the model could not be evaluated at any start value (non-finite currents); check the bias range and units") with
             { Lot = curve.Lot, Wafer = curve.Wafer, DieX = curve.DieX, DieY = curve.DieY };
         }
+        var fullProblem = problem;
+        if (profileArea)
+        {
+            // Polish in all free parameters from the profiled optimum: converges at once and gives the full Jacobian
+            // (area included) for the covariance.
+            var thetaBest = problem.ToTheta(best.Parameters.AsSpan());
+            fullProblem = new LogCurrentProblem(model, vUsed, yUsed, invSigma, freeIndex, thetaBest);
+            var x0 = new double[freeIndex.Length];
+            for (int j = 0; j < freeIndex.Length; j++) x0[j] = ParameterTransforms.ToSolver(defs[freeIndex[j]], thetaBest[freeIndex[j]]);
+            var polished = LevenbergMarquardtSolver.Minimize(fullProblem, x0, options.Solver);
+            iterations += polished.Iterations;
+            bool profiledConverged = best.Converged;
+            best = polished.ResidualSumOfSquares <= best.ResidualSumOfSquares * (1 + 1e-9) || !double.IsFinite(best.ResidualSumOfSquares)
+                ? polished
+                : polished with { Termination = best.Termination, Reason = best.Reason };
+            if (!profiledConverged && best.Converged && polished.Iterations > 1)
+            {
+                best = polished;
+            }
+        }
+        best = best with { Iterations = iterations };
 
         var noise = new NoiseContext(options.RelativeNoise is not null, estimatedNoise, maskNotes);
-        return BuildResult(curve, model, options, best, problem, freeIndex, used, usedCount, masked, maxAbsV, noise);
+        return BuildResult(curve, model, options, best, fullProblem, freeIndex, used, usedCount, masked, maxAbsV, noise);
     }
 
     private sealed record NoiseContext(bool Known, double? EstimatedRelative, List<string> MaskNotes);
@@ -228,10 +254,12 @@ public static class JunctionFitter
             if (j >= 0 && covOk && covX[j, j] >= 0 && double.IsFinite(covX[j, j]))
             {
                 double seX = Math.Sqrt(covX[j, j]);
-                double x = Math.Log(value);
-                se = def.ToDisplay(value * seX);
-                lo = def.ToDisplay(Math.Exp(x - tQuantile * seX));
-                hi = def.ToDisplay(Math.Exp(x + tQuantile * seX));
+                double x = ParameterTransforms.ToSolver(def, value);
+                se = Math.Abs(def.ToDisplay(ParameterTransforms.Derivative(def, value) * seX));
+                double a = def.ToDisplay(ParameterTransforms.FromSolver(def, x - tQuantile * seX));
+                double b = def.ToDisplay(ParameterTransforms.FromSolver(def, x + tQuantile * seX));
+                lo = Math.Min(a, b);
+                hi = Math.Max(a, b);
             }
             estimates.Add(new ParameterEstimate(def.Key, def.Symbol, def.DisplayUnit, def.ToDisplay(value), se, lo, hi, j < 0));
         }
@@ -399,11 +427,12 @@ public static class JunctionFitter
     }
 
     /// <summary>
-    /// Log-spaced grid over φ ∈ [0.2, 6] eV and d ∈ [0.3, 8] nm (only the free ones), the area profiled out when free.
-    /// Returns the best <paramref name="count"/> grid points that are not grid neighbours of a better one.
+    /// Log-spaced grid over φ ∈ [0.2, 6] eV and d ∈ [0.3, 8] nm (only the free ones), evaluated on at most
+    /// <see cref="GridPoints"/> points spread evenly over the curve, with the area profiled out in closed form when it is
+    /// free. Returns the best <paramref name="count"/> grid points that are not grid neighbours of a better one.
     /// </summary>
     private static List<double[]> GridStarts(JunctionCurrentModel model, double[] template, bool[] isFree,
-        double[] v, double[] y, double[] invSigma, int count)
+        double[] vAll, double[] yAll, double[] invSigmaAll, int count)
     {
         int phiIndex = model.IndexOf(StandardParameters.BarrierHeight.Key);
         int dIndex = model.IndexOf(StandardParameters.Thickness.Key);
@@ -411,58 +440,81 @@ public static class JunctionFitter
         bool phiFree = phiIndex >= 0 && isFree[phiIndex];
         bool dFree = dIndex >= 0 && isFree[dIndex];
         bool areaFree = isFree[areaIndex];
-        const int gridSize = 16;
-        int nPhi = phiFree ? gridSize : 1, nD = dFree ? gridSize : 1;
-        var costs = new double[nPhi, nD];
-        var areas = new double[nPhi, nD];
+        int nPhi = phiFree ? GridSize : 1, nD = dFree ? GridSize : 1;
+
+        int m = Math.Min(GridPoints, vAll.Length);
+        Span<double> v = stackalloc double[m];
+        Span<double> y = stackalloc double[m];
+        Span<double> w = stackalloc double[m];
+        Span<double> r = stackalloc double[m];
+        for (int i = 0; i < m; i++)
+        {
+            int src = (int)((long)i * (vAll.Length - 1) / Math.Max(m - 1, 1));
+            v[i] = vAll[src];
+            y[i] = yAll[src];
+            w[i] = invSigmaAll[src] * invSigmaAll[src];
+        }
+        double sw = 0;
+        for (int i = 0; i < m; i++) sw += w[i];
+
+        var costs = new double[nPhi * nD];
+        var logAreas = new double[nPhi * nD];
         var theta = (double[])template.Clone();
-        double eV = PhysicalConstants.JoulePerElectronVolt;
+        double fixedLogArea = Math.Log(template[areaIndex]);
+        if (areaFree) theta[areaIndex] = 1.0;
         for (int a = 0; a < nPhi; a++)
         {
-            if (phiFree) theta[phiIndex] = eV * 0.2 * Math.Pow(30.0, a / (gridSize - 1.0));
+            if (phiFree) theta[phiIndex] = GridPhi(a);
             for (int b = 0; b < nD; b++)
             {
-                if (dFree) theta[dIndex] = 0.3e-9 * Math.Pow(8.0 / 0.3, b / (gridSize - 1.0));
-                theta[areaIndex] = 1.0;
-                double sw = 0, swr = 0;
-                for (int i = 0; i < v.Length; i++)
+                if (dFree) theta[dIndex] = GridThickness(b);
+                double swr = 0;
+                for (int i = 0; i < m; i++)
                 {
-                    double w = invSigma[i] * invSigma[i];
-                    double r = y[i] - LogCurrentProblem.LogModel(model.Current(v[i], theta), v[i]);
-                    sw += w; swr += w * r;
+                    r[i] = y[i] - LogCurrentProblem.LogModel(model.Current(v[i], theta), v[i]);
+                    swr += w[i] * r[i];
                 }
-                double logArea = areaFree ? swr / sw : Math.Log(template[areaIndex]);
-                theta[areaIndex] = Math.Exp(logArea);
+                double c = areaFree ? swr / sw : 0.0;
                 double cost = 0;
-                for (int i = 0; i < v.Length; i++)
-                {
-                    double r = (y[i] - LogCurrentProblem.LogModel(model.Current(v[i], theta), v[i])) * invSigma[i];
-                    cost += r * r;
-                }
-                costs[a, b] = double.IsFinite(cost) ? cost : double.PositiveInfinity;
-                areas[a, b] = theta[areaIndex];
+                for (int i = 0; i < m; i++) cost += w[i] * (r[i] - c) * (r[i] - c);
+                costs[a * nD + b] = double.IsFinite(cost) ? cost : double.PositiveInfinity;
+                logAreas[a * nD + b] = areaFree ? c : fixedLogArea;
             }
         }
-        var cells = new List<(double Cost, int A, int B)>(nPhi * nD);
-        for (int a = 0; a < nPhi; a++) for (int b = 0; b < nD; b++) cells.Add((costs[a, b], a, b));
-        cells.Sort((l, r) => l.Cost.CompareTo(r.Cost));
-        var chosen = new List<(int A, int B)>();
-        foreach (var cell in cells)
+        var order = new int[costs.Length];
+        for (int k = 0; k < order.Length; k++) order[k] = k;
+        Array.Sort((double[])costs.Clone(), order);
+        var chosen = new List<int>();
+        foreach (int cell in order)
         {
             if (chosen.Count >= count) break;
+            int ca = cell / nD, cb = cell % nD;
             bool neighbour = false;
-            foreach (var c in chosen) if (Math.Abs(c.A - cell.A) <= 1 && Math.Abs(c.B - cell.B) <= 1) { neighbour = true; break; }
-            if (!neighbour) chosen.Add((cell.A, cell.B));
+            foreach (int c in chosen)
+            {
+                if (Math.Abs(c / nD - ca) <= 1 && Math.Abs(c % nD - cb) <= 1) { neighbour = true; break; }
+            }
+            if (!neighbour) chosen.Add(cell);
         }
         var starts = new List<double[]>(chosen.Count);
-        foreach (var (a, b) in chosen)
+        foreach (int cell in chosen)
         {
             var start = (double[])template.Clone();
-            if (phiFree) start[phiIndex] = eV * 0.2 * Math.Pow(30.0, a / (gridSize - 1.0));
-            if (dFree) start[dIndex] = 0.3e-9 * Math.Pow(8.0 / 0.3, b / (gridSize - 1.0));
-            if (areaFree) start[areaIndex] = areas[a, b];
+            if (phiFree) start[phiIndex] = GridPhi(cell / nD);
+            if (dFree) start[dIndex] = GridThickness(cell % nD);
+            if (areaFree) start[areaIndex] = Math.Exp(logAreas[cell]);
             starts.Add(start);
         }
         return starts;
     }
+
+    /// <summary>Grid cells per free barrier parameter.</summary>
+    private const int GridSize = 12;
+
+    /// <summary>Points of the curve used to rank grid cells.</summary>
+    private const int GridPoints = 48;
+
+    private static double GridPhi(int a) => PhysicalConstants.JoulePerElectronVolt * 0.2 * Math.Pow(30.0, a / (GridSize - 1.0));
+
+    private static double GridThickness(int b) => 0.3e-9 * Math.Pow(8.0 / 0.3, b / (GridSize - 1.0));
 }

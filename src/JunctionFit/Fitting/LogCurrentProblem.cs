@@ -7,8 +7,15 @@ namespace JunctionFit.Fitting;
 /// <para>
 /// Residuals: rᵢ(x) = (ln|Iᵢ| − ln|I_model(Vᵢ; θ(x))|) / sᵢ, where sᵢ = σ_I,ᵢ/|Iᵢ| is the relative standard deviation
 /// from the noise model σ_I² = (r·I)² + σ_floor² (first-order error propagation into ln|I|).
-/// Variables: xⱼ = ln θₖ for every free positive parameter (bounds by transformation), so θ stays inside (0, ∞).
-/// Jacobian: ∂rᵢ/∂xⱼ = −(1/sᵢ) · (∂I/∂θₖ / I) · θₖ.
+/// Variables: xⱼ = T(θₖ) for every free parameter (see <see cref="ParameterTransforms"/>), so θ stays inside its bounds.
+/// Jacobian: ∂rᵢ/∂xⱼ = −(1/sᵢ) · (∂I/∂θₖ / I) · dθₖ/dxⱼ.
+/// </para>
+/// <para>
+/// Area profiled out (variable projection, when the model has no parasitic elements): I = A·J, so ln|I| = ln A + ln|J| and
+/// for given barrier parameters the best c = ln A is the weighted mean c* = Σ wᵢ(yᵢ − ln|Jᵢ|)/Σ wᵢ, wᵢ = 1/sᵢ². The
+/// reduced residuals are rᵢ = (yᵢ − ln|Jᵢ| − c*)/sᵢ with the exact Jacobian ∂rᵢ/∂xⱼ = −(gᵢⱼ − ḡⱼ)/sᵢ, gᵢⱼ = ∂ln|Jᵢ|/∂xⱼ,
+/// ḡⱼ = Σ wᵢ gᵢⱼ / Σ wᵢ (G. H. Golub and V. Pereyra, SIAM J. Numer. Anal. 10, 413, 1973). Removing the area from the
+/// iteration removes the longest valley of the barrier fit.
 /// </para>
 /// Holds private copies of the data; not shared between threads.
 /// </summary>
@@ -18,23 +25,33 @@ internal sealed class LogCurrentProblem : ILeastSquaresProblem
     internal const double PenaltyLogCurrent = 700.0;
 
     private readonly JunctionCurrentModel _model;
+    private readonly IReadOnlyList<ParameterDefinition> _defs;
     private readonly double[] _voltageV;
     private readonly double[] _logAbsCurrent;
     private readonly double[] _inverseSigma;
     private readonly int[] _freeIndex;
     private readonly double[] _theta;
     private readonly double[] _gradient;
+    private readonly int _profiledArea;
+    private readonly double _weightSum;
 
     public LogCurrentProblem(JunctionCurrentModel model, double[] voltageV, double[] logAbsCurrent, double[] inverseSigma,
-        int[] freeIndex, double[] thetaTemplate)
+        int[] freeIndex, double[] thetaTemplate, bool profileArea = false)
     {
         _model = model;
+        _defs = model.Parameters;
         _voltageV = voltageV;
         _logAbsCurrent = logAbsCurrent;
         _inverseSigma = inverseSigma;
         _freeIndex = freeIndex;
         _theta = (double[])thetaTemplate.Clone();
         _gradient = new double[thetaTemplate.Length];
+        _profiledArea = profileArea ? model.AreaIndex : -1;
+        if (profileArea)
+        {
+            _theta[model.AreaIndex] = 1.0;
+            foreach (double w in inverseSigma) _weightSum += w * w;
+        }
     }
 
     public int ResidualCount => _voltageV.Length;
@@ -43,17 +60,34 @@ internal sealed class LogCurrentProblem : ILeastSquaresProblem
 
     public bool HasAnalyticJacobian => true;
 
-    /// <summary>θ for solver variables x (fixed parameters from the template).</summary>
+    /// <summary>θ for solver variables x (fixed parameters from the template; a profiled area at its best value).</summary>
     public double[] ToTheta(ReadOnlySpan<double> x)
     {
         var theta = (double[])_theta.Clone();
-        for (int j = 0; j < _freeIndex.Length; j++) theta[_freeIndex[j]] = Math.Exp(x[j]);
+        for (int j = 0; j < _freeIndex.Length; j++) theta[_freeIndex[j]] = ParameterTransforms.FromSolver(_defs[_freeIndex[j]], x[j]);
+        if (_profiledArea >= 0)
+        {
+            theta[_profiledArea] = 1.0;
+            double c = ProfiledLogArea(theta);
+            theta[_profiledArea] = Math.Exp(c);
+        }
         return theta;
     }
 
     private void Load(ReadOnlySpan<double> x)
     {
-        for (int j = 0; j < _freeIndex.Length; j++) _theta[_freeIndex[j]] = Math.Exp(x[j]);
+        for (int j = 0; j < _freeIndex.Length; j++) _theta[_freeIndex[j]] = ParameterTransforms.FromSolver(_defs[_freeIndex[j]], x[j]);
+    }
+
+    private double ProfiledLogArea(ReadOnlySpan<double> thetaUnitArea)
+    {
+        double sum = 0;
+        for (int i = 0; i < _voltageV.Length; i++)
+        {
+            double w = _inverseSigma[i] * _inverseSigma[i];
+            sum += w * (_logAbsCurrent[i] - LogModel(_model.Current(_voltageV[i], thetaUnitArea), _voltageV[i]));
+        }
+        return sum / _weightSum;
     }
 
     public void Evaluate(ReadOnlySpan<double> x, Span<double> residuals)
@@ -63,9 +97,15 @@ internal sealed class LogCurrentProblem : ILeastSquaresProblem
         for (int i = 0; i < _voltageV.Length; i++)
         {
             double current = _model.Current(_voltageV[i], theta);
-            double logModel = LogModel(current, _voltageV[i]);
-            residuals[i] = (_logAbsCurrent[i] - logModel) * _inverseSigma[i];
+            residuals[i] = _logAbsCurrent[i] - LogModel(current, _voltageV[i]);
         }
+        double c = 0;
+        if (_profiledArea >= 0)
+        {
+            for (int i = 0; i < _voltageV.Length; i++) c += _inverseSigma[i] * _inverseSigma[i] * residuals[i];
+            c /= _weightSum;
+        }
+        for (int i = 0; i < _voltageV.Length; i++) residuals[i] = (residuals[i] - c) * _inverseSigma[i];
     }
 
     public void Jacobian(ReadOnlySpan<double> x, Span<double> jacobian)
@@ -74,16 +114,31 @@ internal sealed class LogCurrentProblem : ILeastSquaresProblem
         ReadOnlySpan<double> theta = _theta;
         Span<double> gradient = _gradient;
         int n = _freeIndex.Length;
+        Span<double> dThetaDx = stackalloc double[n];
+        for (int j = 0; j < n; j++) dThetaDx[j] = ParameterTransforms.Derivative(_defs[_freeIndex[j]], theta[_freeIndex[j]]);
+        Span<double> mean = stackalloc double[n];
+        mean.Clear();
         for (int i = 0; i < _voltageV.Length; i++)
         {
             double current = _model.Current(_voltageV[i], theta, gradient);
             bool valid = current != 0 && double.IsFinite(current) && Math.Sign(current) == Math.Sign(_voltageV[i]);
-            double scale = valid ? -_inverseSigma[i] / current : 0.0;
+            double scale = valid ? 1.0 / current : 0.0;
             for (int j = 0; j < n; j++)
             {
                 int k = _freeIndex[j];
-                jacobian[i * n + j] = scale * gradient[k] * theta[k];
+                double g = scale * gradient[k] * dThetaDx[j]; // ∂ln|I|/∂xⱼ
+                jacobian[i * n + j] = g;
+                if (_profiledArea >= 0) mean[j] += _inverseSigma[i] * _inverseSigma[i] * g;
             }
+        }
+        if (_profiledArea >= 0)
+        {
+            for (int j = 0; j < n; j++) mean[j] /= _weightSum;
+        }
+        for (int i = 0; i < _voltageV.Length; i++)
+        {
+            double s = -_inverseSigma[i];
+            for (int j = 0; j < n; j++) jacobian[i * n + j] = s * (jacobian[i * n + j] - mean[j]);
         }
     }
 

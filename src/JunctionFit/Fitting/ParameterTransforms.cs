@@ -1,0 +1,59 @@
+using JunctionFit.Physics;
+
+namespace JunctionFit.Fitting;
+
+/// <summary>
+/// Maps between a physical parameter θ and the unbounded solver variable x (bounds by transformation).
+/// <list type="bullet">
+/// <item>Identity: θ = x.</item>
+/// <item>Log (lower bound lo, usually 0): θ = lo + eˣ, dθ/dx = θ − lo.</item>
+/// <item>Logistic (lo, hi): θ = lo + (hi − lo)/(1 + e⁻ˣ), dθ/dx = (θ − lo)(hi − θ)/(hi − lo).</item>
+/// </list>
+/// Every interval computed in x and mapped back therefore stays inside (lo, hi).
+/// </summary>
+internal static class ParameterTransforms
+{
+    public static double ToSolver(ParameterDefinition def, double theta) => def.Transform switch
+    {
+        ParameterTransform.Log => Math.Log(Math.Max(theta - LowerOf(def), double.Epsilon)),
+        ParameterTransform.Logistic => Math.Log((theta - def.LowerSi) / (def.UpperSi - theta)),
+        _ => theta,
+    };
+
+    public static double FromSolver(ParameterDefinition def, double x) => def.Transform switch
+    {
+        ParameterTransform.Log => LowerOf(def) + Math.Exp(x),
+        ParameterTransform.Logistic => def.LowerSi + (def.UpperSi - def.LowerSi) / (1.0 + Math.Exp(-x)),
+        _ => x,
+    };
+
+    /// <summary>dθ/dx at θ.</summary>
+    public static double Derivative(ParameterDefinition def, double theta) => def.Transform switch
+    {
+        ParameterTransform.Log => theta - LowerOf(def),
+        ParameterTransform.Logistic => (theta - def.LowerSi) * (def.UpperSi - theta) / (def.UpperSi - def.LowerSi),
+        _ => 1.0,
+    };
+
+    /// <summary>Clamps a start value strictly inside the bounds so that its transform is finite.</summary>
+    public static double Inside(ParameterDefinition def, double theta)
+    {
+        switch (def.Transform)
+        {
+            case ParameterTransform.Log:
+                {
+                    double lo = LowerOf(def);
+                    return theta > lo ? theta : lo + Math.Max(Math.Abs(def.DefaultSi - lo), 1e-300);
+                }
+            case ParameterTransform.Logistic:
+                {
+                    double span = def.UpperSi - def.LowerSi;
+                    return Math.Clamp(theta, def.LowerSi + 1e-9 * span, def.UpperSi - 1e-9 * span);
+                }
+            default:
+                return theta;
+        }
+    }
+
+    private static double LowerOf(ParameterDefinition def) => double.IsFinite(def.LowerSi) ? def.LowerSi : 0.0;
+}
