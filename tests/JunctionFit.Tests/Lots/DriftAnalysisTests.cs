@@ -34,7 +34,7 @@ public class DriftAnalysisTests
         Assert.DoesNotContain(drift.Rows, r => r.Lot == "KM-A01");
         Assert.All(drift.Rows, r => Assert.NotNull(r.PValueHolm));
         Assert.All(drift.Rows, r => Assert.True(r.PValueHolm >= r.PValue));
-        Assert.Equal(["KM-A01", "KM-A02", "KM-A03"], drift.Lots);
+        Assert.Equal(["KM-A01", "KM-A02", "KM-A03"], drift.Lots.ToArray());
     }
 
     [Fact]
