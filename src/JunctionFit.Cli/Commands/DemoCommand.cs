@@ -22,6 +22,8 @@ internal static class DemoCommand
             string folder = parse.GetValue(data) ?? FindSampleData()
                 ?? throw new UsageException("demo: cannot find the sample-data folder; run from the project folder or give --data PATH");
             if (!Directory.Exists(folder)) throw new UsageException($"demo: --data {folder}: no such folder");
+            string relative = Path.GetRelativePath(Directory.GetCurrentDirectory(), folder);
+            if (!relative.StartsWith("..", StringComparison.Ordinal) && !Path.IsPathRooted(relative)) folder = relative;
             var (model, options, summary) = fitOptions.Build(parse);
             if (parse.GetValue(fitOptions.Area) is null && !parse.GetValue(fitOptions.AreaFromFile))
             {

@@ -80,8 +80,10 @@ internal sealed class FitRun(CliContext context, JunctionCurrentModel model, Fit
         {
             string csv = Path.Combine(outDir, "summary.csv");
             string html = Path.Combine(outDir, "report.html");
-            SummaryTableWriter.WriteCsv(summaries, csv);
-            HtmlReportWriter.Write(summaries, plotFiles, html, new ReportContext(VersionInfo.Text, optionSummary));
+            SummaryTableWriter.WriteCsv(csv, summaries);
+            var entries = new List<HtmlReportEntry>(summaries.Count);
+            for (int k = 0; k < summaries.Count; k++) entries.Add(new HtmlReportEntry(summaries[k]) { PlotPath = plotFiles[k] });
+            HtmlReportWriter.Write(html, new HtmlRunInfo(VersionInfo.Text, DateTimeOffset.Now, model.Barrier.Name, optionSummary), entries);
             context.Error.WriteLine($"junctionfit: wrote {plotFiles.Count(p => p is not null)} plot(s), {csv} and {html}");
         }
         if (fitted == 0) return ExitCodes.UsageOrInput;
@@ -106,9 +108,17 @@ internal sealed class FitRun(CliContext context, JunctionCurrentModel model, Fit
         return new Outcome(JunctionFitter.Fit(curve, model, options), null);
     }
 
+    /// <summary>
+    /// A plot file name from the input path relative to the working directory, folders joined by '_'
+    /// (lot/wafer/die_3_4.csv → lot_wafer_die_3_4.png), made unique within the run.
+    /// </summary>
     private static string UniquePlotName(string sourcePath, HashSet<string> used)
     {
-        string stem = Path.GetFileNameWithoutExtension(sourcePath);
+        string relative = Path.GetRelativePath(Directory.GetCurrentDirectory(), sourcePath);
+        if (relative.StartsWith("..", StringComparison.Ordinal) || Path.IsPathRooted(relative)) relative = Path.GetFileName(sourcePath);
+        string withoutExt = Path.ChangeExtension(relative, null) ?? relative;
+        string stem = withoutExt.Replace(Path.DirectorySeparatorChar, '_').Replace(Path.AltDirectorySeparatorChar, '_').TrimStart('.', '_');
+        if (stem.Length == 0) stem = "fit";
         foreach (char c in Path.GetInvalidFileNameChars()) stem = stem.Replace(c, '_');
         string name = stem + ".png";
         for (int i = 2; !used.Add(name); i++) name = $"{stem}-{i}.png";

@@ -31,6 +31,15 @@ public static class JunctionFitter
     /// <summary>Runs-test z below which the residual signs show systematic misfit (one-sided p ≈ 0.0005).</summary>
     public const double RunsTestCriticalZ = -3.29;
 
+    /// <summary>
+    /// Reduced χ² against the data-estimated noise above which a warning says that the model misses structure
+    /// (common practice, no source: the estimate itself scatters by about ±20 % for 200 points).
+    /// </summary>
+    public const double EstimatedNoiseChiSquareWarning = 2.0;
+
+    /// <summary>Relative standard error above which a strongly correlated parameter is reported as not identifiable.</summary>
+    public const double IdentifiabilityRelativeError = 0.02;
+
     /// <summary>Fits <paramref name="model"/> to <paramref name="curve"/>.</summary>
     /// <param name="curve">The measured curve (SI).</param>
     /// <param name="model">The junction model.</param>
@@ -73,21 +82,30 @@ public static class JunctionFitter
         // ---- masks and weights --------------------------------------------------------------------------
         double floor = options.NoiseFloorA ?? 0.0;
         double? compliance = options.ComplianceA ?? curve.ComplianceA;
-        double relative = options.RelativeNoise ?? 1.0;
         int n = curve.Count;
         var used = new bool[n];
-        int usedCount = 0;
+        int usedCount = 0, zeroBias = 0, wrongSign = 0, belowFloor = 0, atCompliance = 0, flagged = 0, notFinite = 0;
         for (int i = 0; i < n; i++)
         {
             double v = curve.VoltageV[i], c = curve.CurrentA[i];
-            bool ok = double.IsFinite(v) && double.IsFinite(c) && v != 0 && c != 0 && Math.Sign(v) == Math.Sign(c)
-                      && Math.Abs(c) > 3.0 * floor
-                      && !(compliance is double comp && Math.Abs(c) >= 0.999 * comp)
-                      && !(curve.ImportMask.Length == n && curve.ImportMask[i]);
+            bool ok = false;
+            if (!double.IsFinite(v) || !double.IsFinite(c)) notFinite++;
+            else if (v == 0) zeroBias++;
+            else if (curve.ImportMask.Length == n && curve.ImportMask[i]) flagged++;
+            else if (compliance is double comp && Math.Abs(c) >= 0.999 * comp) atCompliance++;
+            else if (c == 0 || Math.Sign(v) != Math.Sign(c)) wrongSign++;
+            else if (Math.Abs(c) <= 3.0 * floor) belowFloor++;
+            else ok = true;
             used[i] = ok;
             if (ok) usedCount++;
         }
         int masked = n - usedCount;
+        var maskNotes = new List<string>();
+        if (wrongSign > 0) maskNotes.Add($"{wrongSign} with zero current or current of the wrong sign for its bias (offset or noise)");
+        if (belowFloor > 0) maskNotes.Add($"{belowFloor} at or below 3x the noise floor");
+        if (atCompliance > 0) maskNotes.Add($"{atCompliance} at the current compliance");
+        if (flagged > 0) maskNotes.Add($"{flagged} flagged by the importer");
+        if (notFinite > 0) maskNotes.Add($"{notFinite} not finite");
         if (usedCount < nFree + 2)
         {
             return FitResult.Failed(curve.SourcePath, modelName,
@@ -97,18 +115,22 @@ public static class JunctionFitter
         }
         var vUsed = new double[usedCount];
         var yUsed = new double[usedCount];
-        var invSigma = new double[usedCount];
         double maxAbsV = 0;
         for (int i = 0, u = 0; i < n; i++)
         {
             if (!used[i]) continue;
-            double c = curve.CurrentA[i];
             vUsed[u] = curve.VoltageV[i];
-            yUsed[u] = Math.Log(Math.Abs(c));
-            double rel = Math.Sqrt(relative * relative + (floor / c) * (floor / c));
-            invSigma[u] = 1.0 / rel;
+            yUsed[u] = Math.Log(Math.Abs(curve.CurrentA[i]));
             maxAbsV = Math.Max(maxAbsV, Math.Abs(vUsed[u]));
             u++;
+        }
+        double? estimatedNoise = options.RelativeNoise is null ? NoiseEstimator.RelativeNoise(vUsed, yUsed) : null;
+        double relative = options.RelativeNoise ?? estimatedNoise ?? 1.0;
+        var invSigma = new double[usedCount];
+        for (int u = 0; u < usedCount; u++)
+        {
+            double c = Math.Exp(yUsed[u]);
+            invSigma[u] = 1.0 / Math.Sqrt(relative * relative + (floor / c) * (floor / c));
         }
 
         // ---- data-driven start and multi-start LM -------------------------------------------------------
@@ -130,22 +152,27 @@ public static class JunctionFitter
             { Lot = curve.Lot, Wafer = curve.Wafer, DieX = curve.DieX, DieY = curve.DieY };
         }
 
-        return BuildResult(curve, model, options, best, problem, freeIndex, used, usedCount, masked, maxAbsV);
+        var noise = new NoiseContext(options.RelativeNoise is not null, estimatedNoise, maskNotes);
+        return BuildResult(curve, model, options, best, problem, freeIndex, used, usedCount, masked, maxAbsV, noise);
     }
 
+    private sealed record NoiseContext(bool Known, double? EstimatedRelative, List<string> MaskNotes);
+
     private static FitResult BuildResult(IvCurve curve, JunctionCurrentModel model, FitOptions options, LeastSquaresSolution best,
-        LogCurrentProblem problem, int[] freeIndex, bool[] used, int usedCount, int masked, double maxAbsV)
+        LogCurrentProblem problem, int[] freeIndex, bool[] used, int usedCount, int masked, double maxAbsV, NoiseContext noise)
     {
         var defs = model.Parameters;
         int p = defs.Count, nFree = freeIndex.Length, m = usedCount;
         int dof = m - nFree;
         double rss = best.ResidualSumOfSquares;
-        bool noiseKnown = options.RelativeNoise is not null;
+        bool noiseKnown = noise.Known;
         double? reducedChi2 = dof > 0 ? rss / dof : null;
         double varianceScale = noiseKnown ? 1.0 : (reducedChi2 ?? double.NaN);
         string scaling = noiseKnown
             ? "unscaled: residuals weighted by the stated noise model"
-            : "scaled by the reduced chi-square (residual variance estimated from the fit)";
+            : noise.EstimatedRelative is double est
+                ? $"scaled by the reduced chi-square; weights from the point-to-point relative noise {est:0.###e+0} estimated from the data"
+                : "scaled by the reduced chi-square (residual variance estimated from the fit)";
         const string intervalMethod = "Wald, in log parameters, t quantile, mapped back (stays inside the physical bounds)";
         var warnings = ImmutableArray.CreateBuilder<string>();
         warnings.AddRange(curve.Warnings);
@@ -218,16 +245,28 @@ public static class JunctionFitter
             for (int a = 0; a < nFree; a++)
             for (int b = 0; b < nFree; b++)
                 corr.Add(covX[a, b] / Math.Sqrt(covX[a, a] * covX[b, b]));
+            var pairs = new List<string>();
+            var involved = new SortedSet<int>();
             for (int a = 0; a < nFree; a++)
             for (int b = a + 1; b < nFree; b++)
             {
                 double rho = corr[a * nFree + b];
-                if (Math.Abs(rho) > CorrelationWarningThreshold)
+                if (Math.Abs(rho) > CorrelationWarningThreshold
+                    && Math.Max(Math.Sqrt(covX[a, a]), Math.Sqrt(covX[b, b])) > IdentifiabilityRelativeError)
                 {
-                    warnings.Add((
-                        $"{defs[freeIndex[a]].Description} and {defs[freeIndex[b]].Description} are not separable by these data (correlation {rho:0.0000}); " +
-                        $"their intervals are wide. Remedy: {Remedy(defs[freeIndex[a]].Key, defs[freeIndex[b]].Key)}"));
+                    pairs.Add($"{defs[freeIndex[a]].Description} / {defs[freeIndex[b]].Description} {rho:0.0000}");
+                    involved.Add(freeIndex[a]);
+                    involved.Add(freeIndex[b]);
                 }
+            }
+            if (pairs.Count > 0)
+            {
+                bool areaInvolved = involved.Contains(model.AreaIndex);
+                string remedy = areaInvolved
+                    ? "fix the area from the lithography (--area or --area-from-file), or widen the bias range so that the curvature of I(V) pins the barrier"
+                    : Remedy(defs[involved.Min].Key, defs[involved.Max].Key);
+                warnings.Add($"not identifiable: these data cannot separate {string.Join(", ", involved.Select(k => defs[k].Description))} " +
+                             $"(correlation {string.Join("; ", pairs)}); their intervals are wide. Remedy: {remedy}");
             }
             if (condition > ConditionWarningThreshold)
             {
@@ -282,9 +321,14 @@ public static class JunctionFitter
                 }
             }
         }
-        if (masked > 0)
+        if (noise.MaskNotes.Count > 0)
         {
-            warnings.Add($"{masked} of {n} points were left out (zero bias, zero or wrong-sign current, noise floor or compliance)");
+            warnings.Add($"{masked} of {n} points were left out: {string.Join("; ", noise.MaskNotes)}");
+        }
+        if (!noiseKnown && noise.EstimatedRelative is not null && reducedChi2 > EstimatedNoiseChiSquareWarning && status == FitStatus.Ok)
+        {
+            warnings.Add($"the residual scatter is {Math.Sqrt(reducedChi2.Value):0.#} times the point-to-point noise of the data: the model misses " +
+                         "structure in the curve, or the noise is not proportional to the current (give --noise and --noise-floor)");
         }
         foreach (var w in model.Barrier.CheckValidity(maxAbsV, thetaHat.AsSpan(0, model.AreaIndex))) warnings.Add(w);
 

@@ -6,8 +6,18 @@ namespace JunctionFit.Physics;
 /// <summary>Shape of a simulated bias sweep.</summary>
 public enum SweepShape
 {
-    /// <summary>Evenly spaced from the start to the end voltage.</summary>
+    /// <summary>Evenly spaced from the start to the end voltage (both polarities when the range spans zero).</summary>
     Linear,
+
+    /// <summary>
+    /// Positive bias only: evenly spaced from max(0, min(from, to)) to max(from, to); needs max(from, to) &gt; 0.
+    /// </summary>
+    PositiveOnly,
+
+    /// <summary>
+    /// A loop 0 → +V → −V → 0 with V = max(|from|, |to|), the points evenly spaced along the path (length 4V), starting and ending at 0.
+    /// </summary>
+    Loop,
 }
 
 /// <summary>What to simulate. Immutable; validated on construction.</summary>
@@ -63,19 +73,57 @@ public static class IvSimulator
         {
             throw new ArgumentException($"expected {model.Parameters.Count} parameters, got {parametersSi.Length}", nameof(parametersSi));
         }
-        var v = new double[spec.Points];
+        var v = SweepVoltages(spec);
         var i = new double[spec.Points];
         var rng = new Random(spec.Seed);
         for (int k = 0; k < spec.Points; k++)
         {
-            double voltage = spec.FromV + (spec.ToV - spec.FromV) * k / (spec.Points - 1);
-            double current = model.Current(voltage, parametersSi);
+            double current = model.Current(v[k], parametersSi);
             double sigma = Math.Sqrt(Square(spec.RelativeNoise * current) + Square(spec.NoiseFloorA));
             if (sigma > 0) current += sigma * StandardNormal(rng);
-            v[k] = voltage;
             i[k] = current;
         }
         return (ImmutableArray.Create(v), ImmutableArray.Create(i));
+    }
+
+    /// <summary>The bias points of a sweep, in volt, in measurement order (see <see cref="SweepShape"/>).</summary>
+    /// <param name="spec">Sweep range, number of points and shape.</param>
+    /// <returns>A new array of <see cref="SimulationSpec.Points"/> voltages.</returns>
+    /// <exception cref="ArgumentException">The shape cannot be made from the range (positive only with no positive bias, loop with zero range).</exception>
+    public static double[] SweepVoltages(SimulationSpec spec)
+    {
+        ArgumentNullException.ThrowIfNull(spec);
+        int n = spec.Points;
+        var v = new double[n];
+        switch (spec.Shape)
+        {
+            case SweepShape.Linear:
+                for (int k = 0; k < n; k++) v[k] = spec.FromV + (spec.ToV - spec.FromV) * k / (n - 1);
+                break;
+            case SweepShape.PositiveOnly:
+            {
+                double top = Math.Max(spec.FromV, spec.ToV);
+                if (!(top > 0)) throw new ArgumentException("a positive-only sweep needs a positive end voltage", nameof(spec));
+                double start = Math.Max(0.0, Math.Min(spec.FromV, spec.ToV));
+                for (int k = 0; k < n; k++) v[k] = start + (top - start) * k / (n - 1);
+                break;
+            }
+            case SweepShape.Loop:
+            {
+                double amplitude = Math.Max(Math.Abs(spec.FromV), Math.Abs(spec.ToV));
+                if (!(amplitude > 0)) throw new ArgumentException("a loop sweep needs a non-zero voltage range", nameof(spec));
+                for (int k = 0; k < n; k++)
+                {
+                    double s = 4.0 * amplitude * k / (n - 1);
+                    v[k] = s <= amplitude ? s : s <= 3.0 * amplitude ? 2.0 * amplitude - s : s - 4.0 * amplitude;
+                }
+                v[n - 1] = 0.0;
+                break;
+            }
+            default:
+                throw new ArgumentException($"unknown sweep shape {spec.Shape}", nameof(spec));
+        }
+        return v;
     }
 
     private static double Square(double x) => x * x;

@@ -3,11 +3,23 @@ namespace JunctionFit.Physics;
 /// <summary>Definitions shared by several models, so that keys and bounds agree everywhere.</summary>
 public static class StandardParameters
 {
+    private const double Ev = PhysicalConstants.JoulePerElectronVolt;
+
     /// <summary>Barrier height φ: key <c>barrier_height_eV</c>, SI joule, bounds 0 &lt; φ ≤ 20 eV.</summary>
     public static ParameterDefinition BarrierHeight { get; } = new(
         "barrier_height_eV", "φ", "barrier height", "eV", 1.0 / PhysicalConstants.JoulePerElectronVolt,
         0.0, 20.0 * PhysicalConstants.JoulePerElectronVolt, 2.0 * PhysicalConstants.JoulePerElectronVolt,
         ParameterTransform.Log, false);
+
+    /// <summary>
+    /// Mean barrier height φ̄ = (φ_bottom + φ_top)/2 of an asymmetric barrier: same key, unit and bounds as
+    /// <see cref="BarrierHeight"/> (<c>barrier_height_eV</c>), so that results of all models line up.
+    /// </summary>
+    public static ParameterDefinition MeanBarrierHeight { get; } = BarrierHeight with
+    {
+        Symbol = "φ̄",
+        Description = "mean barrier height (average of the heights at the two interfaces)",
+    };
 
     /// <summary>Barrier thickness d: key <c>thickness_nm</c>, SI metre, bounds 0 &lt; d ≤ 100 nm.</summary>
     public static ParameterDefinition Thickness { get; } = new(
@@ -23,6 +35,45 @@ public static class StandardParameters
     public static ParameterDefinition Area { get; } = new(
         "area_m2", "A", "effective area", "m²", 1.0,
         0.0, double.PositiveInfinity, 1e-10, ParameterTransform.Log, false);
+
+    /// <summary>
+    /// Barrier asymmetry Δφ = φ_top − φ_bottom: key <c>asymmetry_eV</c>, SI joule, −10 eV &lt; Δφ &lt; 10 eV, start 0.
+    /// φ_top is the barrier height at the interface with the top electrode, the electrode whose potential is the bias V;
+    /// φ_bottom the height at the grounded (bottom) electrode. Δφ &gt; 0 makes |I(−V)| &gt; |I(+V)| at low bias.
+    /// </summary>
+    public static ParameterDefinition Asymmetry { get; } = new(
+        "asymmetry_eV", "Δφ", "barrier asymmetry, top interface minus bottom interface", "eV", 1.0 / Ev,
+        -10.0 * Ev, 10.0 * Ev, 0.0, ParameterTransform.Logistic, false);
+
+    /// <summary>Relative permittivity ε_r of the barrier for the image force: key <c>relative_permittivity</c>, fixed by default.</summary>
+    public static ParameterDefinition RelativePermittivity { get; } = new(
+        "relative_permittivity", "ε_r", "relative permittivity of the barrier seen by the image charge", "", 1.0,
+        1.0, 100.0, 3.9, ParameterTransform.Logistic, true);
+
+    /// <summary>Fermi energy E_F of the electrodes above their conduction-band bottom: key <c>fermi_energy_eV</c>, fixed by default.</summary>
+    public static ParameterDefinition FermiEnergy { get; } = new(
+        "fermi_energy_eV", "E_F", "Fermi energy of the electrodes", "eV", 1.0 / Ev,
+        0.0, 30.0 * Ev, 5.5 * Ev, ParameterTransform.Log, true);
+
+    /// <summary>Series resistance R_s: key <c>series_resistance_ohm</c>, SI ohm, R_s &gt; 0.</summary>
+    public static ParameterDefinition SeriesResistance { get; } = new(
+        "series_resistance_ohm", "R_s", "series resistance (leads, contacts, electrodes)", "Ω", 1.0,
+        0.0, double.PositiveInfinity, 1.0, ParameterTransform.Log, false);
+
+    /// <summary>Parallel leakage conductance G_leak: key <c>leakage_conductance_S</c>, SI siemens, G &gt; 0.</summary>
+    public static ParameterDefinition LeakageConductance { get; } = new(
+        "leakage_conductance_S", "G_leak", "parallel leakage conductance", "S", 1.0,
+        0.0, double.PositiveInfinity, 1e-12, ParameterTransform.Log, false);
+
+    /// <summary>Instrument voltage offset V₀: key <c>voltage_offset_V</c>, SI volt, start 0, unbounded.</summary>
+    public static ParameterDefinition VoltageOffset { get; } = new(
+        "voltage_offset_V", "V₀", "instrument voltage offset", "V", 1.0,
+        double.NegativeInfinity, double.PositiveInfinity, 0.0, ParameterTransform.Identity, false);
+
+    /// <summary>Instrument current offset I₀: key <c>current_offset_A</c>, SI ampere, start 0, unbounded.</summary>
+    public static ParameterDefinition CurrentOffset { get; } = new(
+        "current_offset_A", "I₀", "instrument current offset", "A", 1.0,
+        double.NegativeInfinity, double.PositiveInfinity, 0.0, ParameterTransform.Identity, false);
 
     /// <summary>φ, d, m*/mₑ in that order.</summary>
     public static IReadOnlyList<ParameterDefinition> BarrierHeightThicknessMass { get; } =

@@ -24,7 +24,7 @@ namespace JunctionFit.Reporting;
 /// </list>
 /// <para>
 /// A result without a <see cref="FitResult.Curve"/> (a fit that failed before solving) is not refused: it is
-/// drawn as a short banner, <c>widthPx</c> wide and at most 220 px high, that names the file and states the
+/// drawn as a short banner, <c>widthPx</c> wide and at most 160 px high, that names the file and states the
 /// error, so a report always has a picture per file.
 /// </para>
 /// <para>
@@ -41,7 +41,7 @@ public static class FitPlotRenderer
     public const int MaximumSidePx = 8000;
 
     /// <summary>Height cap of the banner drawn for a result without curve data.</summary>
-    public const int FailureBannerMaxHeightPx = 220;
+    public const int FailureBannerMaxHeightPx = 160;
 
     private const string UpperAxisKey = "logI";
     private const string LowerAxisKey = "residual";
@@ -52,7 +52,7 @@ public static class FitPlotRenderer
     /// <summary>Renders the figure for <paramref name="result"/> and returns the PNG file content.</summary>
     /// <param name="result">The fit to draw.</param>
     /// <param name="widthPx">Image width in pixels, 120 … 8000.</param>
-    /// <param name="heightPx">Image height in pixels, 120 … 8000 (a failure banner is at most 220 px high).</param>
+    /// <param name="heightPx">Image height in pixels, 120 … 8000 (a failure banner is at most 160 px high).</param>
     /// <returns>PNG bytes.</returns>
     /// <exception cref="ArgumentNullException"><paramref name="result"/> is null.</exception>
     /// <exception cref="ArgumentOutOfRangeException">A size is outside 120 … 8000.</exception>
@@ -71,8 +71,9 @@ public static class FitPlotRenderer
         {
             canvas.Clear(SKColors.White);
             // Everything is laid out on a 900 × 700 reference page and scaled, so text keeps its proportion.
-            double scale = Math.Clamp(Math.Min(widthPx / ReferenceWidth, heightPx / ReferenceHeight), 0.55, 4.0);
-            if (result.Curve is null) scale = Math.Clamp(widthPx / ReferenceWidth, 0.55, 4.0);
+            // Below about 0.75 the text would be too small to read, so small images get a tighter layout instead.
+            double scale = Math.Clamp(Math.Min(widthPx / ReferenceWidth, heightPx / ReferenceHeight), 0.75, 4.0);
+            if (result.Curve is null) scale = Math.Clamp(widthPx / ReferenceWidth, 0.75, 4.0);
             rc.DpiScale = (float)scale;
             var page = new OxyRect(0, 0, widthPx / scale, heightPx / scale);
             if (result.Curve is { } c) DrawFigure(rc, page, result, c);
@@ -126,12 +127,38 @@ public static class FitPlotRenderer
         IPlotModel model = BuildPlotModel(result, curve);
         model.Update(true);
         model.Render(rc, plotRect);
+        if (model is PlotModel laidOut) FramePanels(rc, laidOut);
 
         // The box starts level with the upper panel's top edge once the plot has been laid out.
         double boxTop = top + 6;
         if (model is PlotModel pm && pm.PlotArea.Height > 0) boxTop = pm.PlotArea.Top;
         var box = new OxyRect(plotRect.Right + 4, boxTop, Math.Max(page.Width - plotRect.Right - 4 - Margin, 60), 0);
         DrawParameterBox(rc, box, page.Bottom - Margin, result);
+    }
+
+    /// <summary>
+    /// The two panels share one bias axis, so its grid lines would run through the gap between them:
+    /// paint the gap white and draw a thin frame around each panel.
+    /// </summary>
+    private static void FramePanels(IRenderContext rc, PlotModel model)
+    {
+        Axis? upper = null, lower = null;
+        foreach (var axis in model.Axes)
+        {
+            if (axis.Key == UpperAxisKey) upper = axis;
+            else if (axis.Key == LowerAxisKey) lower = axis;
+        }
+        if (upper is null || lower is null) return;
+        double left = model.PlotArea.Left, right = model.PlotArea.Right;
+        double upperTop = Math.Min(upper.ScreenMin.Y, upper.ScreenMax.Y), upperBottom = Math.Max(upper.ScreenMin.Y, upper.ScreenMax.Y);
+        double lowerTop = Math.Min(lower.ScreenMin.Y, lower.ScreenMax.Y), lowerBottom = Math.Max(lower.ScreenMin.Y, lower.ScreenMax.Y);
+        if (!(lowerTop > upperBottom) || !(right > left)) return;
+        rc.DrawRectangle(new OxyRect(left + 1, upperBottom + 1, right - left, lowerTop - upperBottom - 2),
+            PlotPalette.Background, OxyColors.Undefined, 0, EdgeRenderingMode.PreferSharpness);
+        rc.DrawRectangle(new OxyRect(left, upperTop, right - left, upperBottom - upperTop),
+            OxyColors.Undefined, PlotPalette.PanelBorder, 1, EdgeRenderingMode.PreferSharpness);
+        rc.DrawRectangle(new OxyRect(left, lowerTop, right - left, lowerBottom - lowerTop),
+            OxyColors.Undefined, PlotPalette.PanelBorder, 1, EdgeRenderingMode.PreferSharpness);
     }
 
     /// <summary>Draws the two title lines; returns the y where the content starts.</summary>
@@ -204,10 +231,12 @@ public static class FitPlotRenderer
             IsZoomEnabled = false,
             IsPanEnabled = false,
         });
+        var (upperMinimum, below) = UpperMinimum(curve);
         model.Axes.Add(new LinearAxis
         {
             Position = AxisPosition.Left,
             Key = UpperAxisKey,
+            Minimum = upperMinimum ?? double.NaN,
             StartPosition = 0.36,
             EndPosition = 1.0,
             Title = "log₁₀ |I|   (I in A)",
@@ -252,7 +281,7 @@ public static class FitPlotRenderer
 
         var masked = new ScatterSeries
         {
-            Title = $"measured, not fitted ({n - usedCount})",
+            Title = below > 0 ? $"masked ({n - usedCount}; {below} off scale)" : $"masked ({n - usedCount})",
             MarkerType = MarkerType.Cross,
             MarkerSize = 3.4,
             MarkerStroke = PlotPalette.Masked,
@@ -261,7 +290,7 @@ public static class FitPlotRenderer
         };
         var used = new ScatterSeries
         {
-            Title = $"measured, fitted ({usedCount})",
+            Title = $"measured ({usedCount} fitted)",
             MarkerType = MarkerType.Circle,
             MarkerSize = 2.6,
             MarkerFill = PlotPalette.Measured,
@@ -306,8 +335,8 @@ public static class FitPlotRenderer
         };
         foreach (var p in ModelLine(curve)) line.Points.Add(p);
 
-        if (masked.Points.Count > 0) model.Series.Add(masked);
         model.Series.Add(used);
+        if (masked.Points.Count > 0 || below > 0) model.Series.Add(masked);
         model.Series.Add(line);
         model.Series.Add(residualMasked);
         model.Series.Add(residualUsed);
@@ -323,6 +352,33 @@ public static class FitPlotRenderer
             Layer = AnnotationLayer.BelowSeries,
         });
         return model;
+    }
+
+    /// <summary>Decades shown below the lowest fitted point before masked points are cut off.</summary>
+    internal const double DecadesBelowFitted = 1.0;
+
+    /// <summary>
+    /// Lower end of the upper panel: masked points at the noise floor (around zero bias) can lie many decades
+    /// below the fitted data and would squash it, so the axis stops one decade below the lowest fitted point
+    /// and the points beyond are counted in the legend. Null when nothing needs cutting.
+    /// </summary>
+    internal static (double? Minimum, int Below) UpperMinimum(CurveSnapshot curve)
+    {
+        double minUsed = double.PositiveInfinity;
+        for (int i = 0; i < curve.MeasuredCurrentA.Length; i++)
+        {
+            double y = Log10Abs(curve.MeasuredCurrentA[i]);
+            if (curve.Used[i] && double.IsFinite(y)) minUsed = Math.Min(minUsed, y);
+        }
+        if (!double.IsFinite(minUsed)) return (null, 0);
+        double cut = minUsed - DecadesBelowFitted;
+        int below = 0;
+        for (int i = 0; i < curve.MeasuredCurrentA.Length; i++)
+        {
+            double y = Log10Abs(curve.MeasuredCurrentA[i]);
+            if (double.IsFinite(y) && y < cut) below++;
+        }
+        return below > 0 ? (cut, below) : (null, 0);
     }
 
     /// <summary>
@@ -410,7 +466,7 @@ public static class FitPlotRenderer
     /// <summary>The text of the parameter box, in order. Pure, for tests.</summary>
     internal static List<BoxLine> BoxLines(FitResult result)
     {
-        var lines = new List<BoxLine> { new("Fitted values, 95 % interval", BoxLineKind.Heading) };
+        var lines = new List<BoxLine> { new("Fitted values", BoxLineKind.Heading) };
         foreach (var p in result.Parameters)
         {
             var q = DisplayQuantity.From(p);
@@ -421,7 +477,7 @@ public static class FitPlotRenderer
                 continue;
             }
             lines.Add(new($"{q.Symbol} = {q.ValueText}{unit}", BoxLineKind.Value));
-            lines.Add(new(q.HasInterval ? $"{q.Format(q.Lower95!.Value)} … {q.Format(q.Upper95!.Value)}{unit}" : "interval not estimable", BoxLineKind.Detail));
+            lines.Add(new(q.HasInterval ? $"95 %: {q.Format(q.Lower95!.Value)} … {q.Format(q.Upper95!.Value)}{unit}" : "95 % interval not estimable", BoxLineKind.Detail));
         }
         lines.Add(new("", BoxLineKind.Rule));
         if (result.Quality is { } fit)

@@ -14,7 +14,7 @@ internal static class ReportingFixtures
     {
         var model = new JunctionCurrentModel(SimmonsRectangularModel.Instance);
         double[] truth = [2.0 * PhysicalConstants.JoulePerElectronVolt, 1.5e-9, 1.0, 1e-10];
-        double[] fitted = [2.004 * PhysicalConstants.JoulePerElectronVolt, 1.497e-9, 1.0, 1.01e-10];
+        double[] fitted = [2.001 * PhysicalConstants.JoulePerElectronVolt, 1.4995e-9, 1.0, 1.0e-10];
         var spec = new SimulationSpec(-0.8, 0.8, points) { RelativeNoise = 0.02, NoiseFloorA = 2e-14, Seed = seed };
         var (v, i) = IvSimulator.Simulate(model, truth, spec);
         var modelI = new double[points];

@@ -1,0 +1,50 @@
+namespace JunctionFit.Fitting;
+
+/// <summary>
+/// Estimates the relative current noise of a curve from its point-to-point scatter, without a model.
+/// <para>
+/// For points sorted by bias, the second difference eᵢ = yᵢ − (wₗ yᵢ₋₁ + wᵣ yᵢ₊₁) of y = ln|I|, with the linear
+/// interpolation weights wₗ = (Vᵢ₊₁ − Vᵢ)/(Vᵢ₊₁ − Vᵢ₋₁), wᵣ = 1 − wₗ, removes any locally linear trend; for independent
+/// noise of standard deviation s in y, Var eᵢ = s²(1 + wₗ² + wᵣ²). The estimate is the normalised median absolute
+/// value, s = 1.4826 · median(|eᵢ| / √(1 + wₗ² + wᵣ²)), robust to the few triples where the curve bends sharply
+/// (near zero bias). 1.4826 = 1/Φ⁻¹(3/4) makes the median absolute value consistent for a normal distribution
+/// (Hampel 1974). Triples that straddle zero bias are skipped. Since s is the standard deviation of ln|I|, it is the
+/// relative current noise r of σ_I = r·|I| to first order.
+/// </para>
+/// </summary>
+public static class NoiseEstimator
+{
+    /// <summary>Minimum number of triples for an estimate.</summary>
+    public const int MinimumTriples = 8;
+
+    /// <summary>Smallest estimate returned, so that noise-free (simulated) data still give finite weights.</summary>
+    public const double SmallestEstimate = 1e-9;
+
+    /// <summary>The relative noise r of ln|I| against V, or null when there are too few points.</summary>
+    /// <param name="voltageV">Bias of each point (any order).</param>
+    /// <param name="logAbsCurrent">ln|I| of each point.</param>
+    public static double? RelativeNoise(ReadOnlySpan<double> voltageV, ReadOnlySpan<double> logAbsCurrent)
+    {
+        if (voltageV.Length != logAbsCurrent.Length) throw new ArgumentException("voltage and current lengths differ");
+        int m = voltageV.Length;
+        if (m < MinimumTriples + 2) return null;
+        var v = voltageV.ToArray();
+        var y = logAbsCurrent.ToArray();
+        Array.Sort(v, y);
+        var scaled = new double[m];
+        int count = 0;
+        for (int i = 1; i < m - 1; i++)
+        {
+            double v0 = v[i - 1], v1 = v[i], v2 = v[i + 1];
+            if (Math.Sign(v0) != Math.Sign(v2) || v2 <= v0) continue;
+            double wl = (v2 - v1) / (v2 - v0);
+            double wr = 1.0 - wl;
+            double e = y[i] - (wl * y[i - 1] + wr * y[i + 1]);
+            scaled[count++] = Math.Abs(e) / Math.Sqrt(1.0 + wl * wl + wr * wr);
+        }
+        if (count < MinimumTriples) return null;
+        Array.Sort(scaled, 0, count);
+        double median = count % 2 == 1 ? scaled[count / 2] : 0.5 * (scaled[count / 2 - 1] + scaled[count / 2]);
+        return Math.Max(1.4826 * median, SmallestEstimate);
+    }
+}

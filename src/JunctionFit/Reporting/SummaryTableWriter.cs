@@ -1,0 +1,192 @@
+using System.Globalization;
+using System.Text;
+using CsvHelper;
+using JunctionFit.Common;
+using JunctionFit.Results;
+
+namespace JunctionFit.Reporting;
+
+/// <summary>
+/// The one-row-per-file summary as CSV (for spreadsheets and scripts) and as a fixed-width text table
+/// (for the console).
+/// <para>
+/// CSV columns, in order: <c>file, lot, wafer, die_x, die_y, model, status</c>; then for every parameter key K
+/// that occurs in any result (in order of first appearance): <c>K, K_stderr, K_lo, K_hi, K_fixed</c>; then
+/// <c>reduced_chi2, points_used, points_masked, transition_voltage_V, warnings, error</c>. Values are in the
+/// unit their key names (area in m²), written in the invariant culture with round-trip precision; an unknown
+/// value is an empty field; <c>K_fixed</c> is <c>true</c>/<c>false</c>; warnings are joined with <c>" | "</c>.
+/// Quoting follows RFC 4180 (fields with commas, quotes or line breaks are quoted, quotes doubled), lines end
+/// with CRLF, the encoding is UTF-8 without a byte-order mark.
+/// </para>
+/// </summary>
+public static class SummaryTableWriter
+{
+    /// <summary>Separator between warnings inside one CSV field.</summary>
+    public const string WarningSeparator = " | ";
+
+    private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
+
+    /// <summary>The CSV header for <paramref name="results"/>.</summary>
+    /// <param name="results">The results that will be written.</param>
+    /// <returns>Column names in order.</returns>
+    /// <exception cref="ArgumentNullException"><paramref name="results"/> is null.</exception>
+    public static IReadOnlyList<string> CsvHeader(IReadOnlyList<FitResult> results)
+    {
+        ArgumentNullException.ThrowIfNull(results);
+        var header = new List<string> { "file", "lot", "wafer", "die_x", "die_y", "model", "status" };
+        foreach (string key in SummaryRow.ParameterKeys(results))
+        {
+            header.Add(key);
+            header.Add(key + "_stderr");
+            header.Add(key + "_lo");
+            header.Add(key + "_hi");
+            header.Add(key + "_fixed");
+        }
+        header.AddRange(["reduced_chi2", "points_used", "points_masked", "transition_voltage_V", "warnings", "error"]);
+        return header;
+    }
+
+    /// <summary>The summary of <paramref name="results"/> as CSV text.</summary>
+    /// <param name="results">One row per result, in the given order.</param>
+    /// <returns>The CSV text including the header line.</returns>
+    /// <exception cref="ArgumentNullException"><paramref name="results"/> or one of its items is null.</exception>
+    public static string ToCsv(IReadOnlyList<FitResult> results)
+    {
+        using var buffer = new MemoryStream();
+        WriteCsv(buffer, results);
+        return AtomicFile.Utf8NoBom.GetString(buffer.GetBuffer(), 0, (int)buffer.Length);
+    }
+
+    /// <summary>Writes the CSV summary as UTF-8 to <paramref name="destination"/>, which stays open.</summary>
+    /// <param name="destination">Where the bytes go, from its current position.</param>
+    /// <param name="results">One row per result, in the given order.</param>
+    /// <exception cref="ArgumentNullException">An argument or one of the results is null.</exception>
+    public static void WriteCsv(Stream destination, IReadOnlyList<FitResult> results)
+    {
+        ArgumentNullException.ThrowIfNull(destination);
+        ArgumentNullException.ThrowIfNull(results);
+        foreach (var r in results) ArgumentNullException.ThrowIfNull(r, nameof(results));
+        var keys = SummaryRow.ParameterKeys(results);
+        var header = CsvHeader(results);
+        var fields = new string[header.Count];
+        using var csv = CsvWriter.Create(destination, CsvWriterOptions.Default, leaveOpen: true);
+        csv.WriteHeader([.. header]);
+        foreach (var r in results)
+        {
+            int f = 0;
+            fields[f++] = r.SourcePath;
+            fields[f++] = r.Lot ?? "";
+            fields[f++] = r.Wafer ?? "";
+            fields[f++] = SummaryRow.Number(r.DieX);
+            fields[f++] = SummaryRow.Number(r.DieY);
+            fields[f++] = r.Model;
+            fields[f++] = FitPlotRenderer.StatusText(r.Status);
+            foreach (string key in keys)
+            {
+                var p = r.Find(key);
+                fields[f++] = SummaryRow.Number(p?.Value);
+                fields[f++] = SummaryRow.Number(p?.StandardError);
+                fields[f++] = SummaryRow.Number(p?.Lower95);
+                fields[f++] = SummaryRow.Number(p?.Upper95);
+                fields[f++] = p is null ? "" : p.IsFixed ? "true" : "false";
+            }
+            fields[f++] = SummaryRow.Number(r.Quality?.ReducedChiSquare);
+            fields[f++] = SummaryRow.Number(r.Quality?.PointsUsed);
+            fields[f++] = SummaryRow.Number(r.Quality?.PointsMasked);
+            fields[f++] = SummaryRow.Number(r.TransitionVoltageV);
+            fields[f++] = string.Join(WarningSeparator, r.Warnings);
+            fields[f++] = r.Error ?? "";
+            csv.WriteRecord(fields);
+        }
+        csv.Flush();
+    }
+
+    /// <summary>Writes the CSV summary to <paramref name="path"/> atomically (see <see cref="AtomicFile"/>).</summary>
+    /// <param name="path">Target file; its directory is created when missing.</param>
+    /// <param name="results">One row per result.</param>
+    /// <exception cref="ArgumentNullException"><paramref name="results"/> is null.</exception>
+    /// <exception cref="ArgumentException"><paramref name="path"/> is empty or names a directory.</exception>
+    /// <exception cref="IOException">The file could not be written; an existing file is left unchanged.</exception>
+    public static void WriteCsv(string path, IReadOnlyList<FitResult> results)
+    {
+        ArgumentException.ThrowIfNullOrWhiteSpace(path);
+        ArgumentNullException.ThrowIfNull(results);
+        AtomicFile.Write(path, stream => WriteCsv(stream, results));
+    }
+
+    /// <summary>
+    /// A plain-text table for the console: file, status, φ (eV), d (nm), area (µm²) each with its 95 % interval
+    /// in brackets or "(fixed)", reduced χ², transition voltage and the number of warnings; a failed row shows its
+    /// error in the last column. Columns are padded with spaces, numbers right-aligned; long file names are
+    /// shortened from the left (the end of a path names the die). Lines end with "\n".
+    /// </summary>
+    /// <param name="results">One row per result.</param>
+    /// <returns>The table, header and rule first; "(no results)" for an empty list.</returns>
+    /// <exception cref="ArgumentNullException"><paramref name="results"/> or one of its items is null.</exception>
+    public static string FormatConsoleTable(IReadOnlyList<FitResult> results)
+    {
+        ArgumentNullException.ThrowIfNull(results);
+        if (results.Count == 0) return "(no results)\n";
+        const int maxFileWidth = 40;
+        string[] header = ["file", "status", "phi (eV)", "d (nm)", "area (um2)", "red.chi2", "Vt (V)", "warn", "note"];
+        bool[] right = [false, false, true, true, true, true, true, true, false];
+        var rows = new List<string[]>(results.Count);
+        foreach (var r in results)
+        {
+            ArgumentNullException.ThrowIfNull(r, nameof(results));
+            rows.Add(
+            [
+                ShortenLeft(OneLine(r.SourcePath), maxFileWidth),
+                FitPlotRenderer.StatusText(r.Status),
+                ConsoleQuantity(r, SummaryRow.BarrierHeightKey),
+                ConsoleQuantity(r, SummaryRow.ThicknessKey),
+                ConsoleQuantity(r, SummaryRow.AreaKey),
+                SummaryRow.ChiText(r).Replace("—", "-", StringComparison.Ordinal),
+                SummaryRow.TransitionText(r).Replace("—", "-", StringComparison.Ordinal),
+                r.Warnings.Length.ToString(Inv),
+                r.Status == FitStatus.Failed ? OneLine(r.Error ?? "failed") : "",
+            ]);
+        }
+        var width = new int[header.Length];
+        for (int c = 0; c < header.Length; c++)
+        {
+            width[c] = header[c].Length;
+            foreach (var row in rows) width[c] = Math.Max(width[c], row[c].Length);
+        }
+        var sb = new StringBuilder();
+        AppendRow(sb, header, width, right);
+        for (int c = 0; c < header.Length; c++)
+        {
+            if (c > 0) sb.Append("  ");
+            sb.Append('-', c == header.Length - 1 ? Math.Max(4, header[c].Length) : width[c]);
+        }
+        sb.Append('\n');
+        foreach (var row in rows) AppendRow(sb, row, width, right);
+        return sb.ToString();
+    }
+
+    private static void AppendRow(StringBuilder sb, string[] cells, int[] width, bool[] right)
+    {
+        var line = new StringBuilder();
+        for (int c = 0; c < cells.Length; c++)
+        {
+            if (c > 0) line.Append("  ");
+            bool last = c == cells.Length - 1;
+            if (right[c]) line.Append(cells[c].PadLeft(width[c]));
+            else line.Append(last ? cells[c] : cells[c].PadRight(width[c]));
+        }
+        sb.Append(line.ToString().TrimEnd()).Append('\n');
+    }
+
+    /// <summary>ASCII-only form, so that any console shows it: "2.0041 [1.9957, 2.0126]", "1 (fixed)" or "-".</summary>
+    private static string ConsoleQuantity(FitResult r, string key)
+    {
+        if (r.Status == FitStatus.Failed) return "-";
+        return SummaryRow.Quantity(r, key) is { } q ? q.Compact.Replace("−", "-", StringComparison.Ordinal).Replace("∞", "inf", StringComparison.Ordinal) : "-";
+    }
+
+    private static string ShortenLeft(string text, int max)
+        => text.Length <= max ? text : "..." + text[^(max - 3)..];
+
+    private static string OneLine(string text) => text.ReplaceLineEndings(" ");
+}
