@@ -108,6 +108,11 @@ public class FitPlotRendererTests
             File.WriteAllBytes(Path.Combine(dump, "poor.png"), FitPlotRenderer.RenderPng(ReportingFixtures.PoorResult() with { SourcePath = ReportingFixtures.HostileName }));
             File.WriteAllBytes(Path.Combine(dump, "failed.png"), FitPlotRenderer.RenderPng(ReportingFixtures.FailedResult()));
             File.WriteAllBytes(Path.Combine(dump, "small.png"), FitPlotRenderer.RenderPng(result, 480, 360));
+            File.WriteAllBytes(Path.Combine(dump, "noisy.png"), FitPlotRenderer.RenderPng(ReportingFixtures.NoisyResult()));
+            File.WriteAllText(Path.Combine(dump, "report.html"), HtmlReportWriter.Render(
+                new HtmlRunInfo("junctionfit 0.1.0-dev", DateTimeOffset.UnixEpoch, "simmons", "--model simmons"),
+                [HtmlReportEntry.WithRenderedPlot(result), HtmlReportEntry.WithRenderedPlot(ReportingFixtures.NoisyResult()),
+                 HtmlReportEntry.WithRenderedPlot(ReportingFixtures.FailedResult())]));
         }
     }
 
