@@ -365,7 +365,7 @@ public static class FitPlotRenderer
         foreach (var p in ModelLine(curve)) line.Points.Add(p);
 
         model.Series.Add(used);
-        if (masked.Points.Count > 0) model.Series.Add(masked);
+        if (usedCount < n) model.Series.Add(masked); // listed even when all masked points are off scale
         model.Series.Add(line);
         if (offScale > 0) model.Series.Add(edge);
         model.Series.Add(residualMasked);
