@@ -254,6 +254,7 @@ public static class FitPlotRenderer
         });
 
         var (limit, clipped) = ResidualLimit(curve);
+        int offScale = below + clipped;
         model.Axes.Add(new LinearAxis
         {
             Position = AxisPosition.Left,
@@ -262,7 +263,7 @@ public static class FitPlotRenderer
             EndPosition = 0.25,
             Minimum = -limit,
             Maximum = limit,
-            Title = clipped > 0 ? $"ln|I| − ln|I_model|  ({clipped} off scale)" : "ln|I| − ln|I_model|",
+            Title = "ln|I| − ln|I_model|",
             TitleFontSize = 11.5,
             FontSize = 10.5,
             AxislineStyle = LineStyle.Solid,
@@ -281,7 +282,7 @@ public static class FitPlotRenderer
 
         var masked = new ScatterSeries
         {
-            Title = below > 0 ? $"masked ({n - usedCount}; {below} off scale)" : $"masked ({n - usedCount})",
+            Title = $"masked ({n - usedCount})",
             MarkerType = MarkerType.Cross,
             MarkerSize = 3.4,
             MarkerStroke = PlotPalette.Masked,
@@ -314,6 +315,26 @@ public static class FitPlotRenderer
             YAxisKey = LowerAxisKey,
         };
 
+        // Points beyond a panel's edge are drawn just inside it as open triangles, so nothing disappears silently.
+        var edge = new ScatterSeries
+        {
+            Title = string.Create(Inv, $"off scale ({offScale})"),
+            MarkerType = MarkerType.Triangle,
+            MarkerSize = 3.6,
+            MarkerFill = OxyColors.Undefined,
+            MarkerStroke = PlotPalette.ZeroLine,
+            MarkerStrokeThickness = 1.1,
+            YAxisKey = UpperAxisKey,
+        };
+        var edgeResidual = new ScatterSeries
+        {
+            MarkerType = MarkerType.Triangle,
+            MarkerSize = 3.6,
+            MarkerFill = OxyColors.Undefined,
+            MarkerStroke = PlotPalette.ZeroLine,
+            MarkerStrokeThickness = 1.1,
+            YAxisKey = LowerAxisKey,
+        };
         for (int i = 0; i < n; i++)
         {
             double v = curve.VoltageV[i];
@@ -321,8 +342,16 @@ public static class FitPlotRenderer
             double logI = Log10Abs(curve.MeasuredCurrentA[i]);
             double r = curve.LogResidual[i];
             bool isUsed = curve.Used[i];
-            if (double.IsFinite(logI)) (isUsed ? used : masked).Points.Add(new ScatterPoint(v, logI));
-            if (double.IsFinite(r) && Math.Abs(r) <= limit) (isUsed ? residualUsed : residualMasked).Points.Add(new ScatterPoint(v, r));
+            if (double.IsFinite(logI))
+            {
+                if (upperMinimum is double lowest && logI < lowest) edge.Points.Add(new ScatterPoint(v, lowest + 0.05));
+                else (isUsed ? used : masked).Points.Add(new ScatterPoint(v, logI));
+            }
+            if (double.IsFinite(r))
+            {
+                if (Math.Abs(r) <= limit) (isUsed ? residualUsed : residualMasked).Points.Add(new ScatterPoint(v, r));
+                else edgeResidual.Points.Add(new ScatterPoint(v, Math.CopySign(0.95 * limit, r)));
+            }
         }
 
         var line = new LineSeries
@@ -336,9 +365,11 @@ public static class FitPlotRenderer
         foreach (var p in ModelLine(curve)) line.Points.Add(p);
 
         model.Series.Add(used);
-        if (masked.Points.Count > 0 || below > 0) model.Series.Add(masked);
+        if (usedCount < n) model.Series.Add(masked); // listed even when all masked points are off scale
         model.Series.Add(line);
+        if (offScale > 0) model.Series.Add(edge);
         model.Series.Add(residualMasked);
+        if (edgeResidual.Points.Count > 0) model.Series.Add(edgeResidual);
         model.Series.Add(residualUsed);
 
         model.Annotations.Add(new LineAnnotation
@@ -360,7 +391,7 @@ public static class FitPlotRenderer
     /// <summary>
     /// Lower end of the upper panel: masked points at the noise floor (around zero bias) can lie many decades
     /// below the fitted data and would squash it, so the axis stops one decade below the lowest fitted point
-    /// and the points beyond are counted in the legend. Null when nothing needs cutting.
+    /// and the points beyond are drawn on that edge. Null when nothing needs cutting.
     /// </summary>
     internal static (double? Minimum, int Below) UpperMinimum(CurveSnapshot curve)
     {
@@ -383,7 +414,7 @@ public static class FitPlotRenderer
 
     /// <summary>
     /// Half-range of the residual panel: the largest |residual| among fitted points plus a margin, at least 0.05.
-    /// Masked points can sit far off (noise floor, compliance); those beyond the range are counted, not drawn.
+    /// Masked points can sit far off (noise floor, compliance); those beyond the range are counted and drawn on the edge.
     /// </summary>
     internal static (double Limit, int Clipped) ResidualLimit(CurveSnapshot curve)
     {
@@ -461,6 +492,9 @@ public static class FitPlotRenderer
 
         /// <summary>The status line.</summary>
         Status,
+
+        /// <summary>One warning (wrapped; cut off with "…" when the box runs out of room).</summary>
+        Warning,
     }
 
     /// <summary>The text of the parameter box, in order. Pure, for tests.</summary>
@@ -473,7 +507,7 @@ public static class FitPlotRenderer
             string unit = q.Unit.Length == 0 ? "" : " " + q.Unit;
             if (q.IsFixed)
             {
-                lines.Add(new($"{q.Symbol} = {DisplayQuantity.FormatGeneral(q.Value)}{unit}   fixed", BoxLineKind.Value));
+                lines.Add(new($"{q.Symbol} = {DisplayQuantity.FormatGeneral(q.Value)}{unit}  (fixed)", BoxLineKind.Value));
                 continue;
             }
             lines.Add(new($"{q.Symbol} = {q.ValueText}{unit}", BoxLineKind.Value));
@@ -491,6 +525,12 @@ public static class FitPlotRenderer
             lines.Add(new($"transition voltage {vt.ToString("0.###", Inv)} V", BoxLineKind.Detail));
         }
         lines.Add(new($"status: {StatusText(result.Status)}", BoxLineKind.Status));
+        if (result.Warnings.Length > 0)
+        {
+            lines.Add(new("", BoxLineKind.Rule));
+            lines.Add(new(result.Warnings.Length == 1 ? "Warning" : "Warnings", BoxLineKind.Heading));
+            foreach (string w in result.Warnings) lines.Add(new("• " + w.ReplaceLineEndings(" "), BoxLineKind.Warning));
+        }
         return lines;
     }
 
@@ -500,27 +540,42 @@ public static class FitPlotRenderer
         double innerWidth = box.Width - 2 * pad;
         var lines = BoxLines(result);
 
-        // First pass: wrap and measure; second pass: draw on the filled box.
+        // First pass: wrap and measure, stopping with "…" when the box would run past the page;
+        // second pass: draw on the filled box.
+        double available = Math.Max(maxBottom - box.Top - 2 * pad, 20);
         var laid = new List<(string Text, BoxLineKind Kind, double Height)>(lines.Count + 4);
+        double used = 0;
+        bool full = false;
         foreach (var line in lines)
         {
             var (size, weight) = StyleOf(line.Kind);
-            if (line.Kind == BoxLineKind.Rule)
+            var pieces = line.Kind == BoxLineKind.Rule ? [""] : Wrap(rc, line.Text, size, weight, innerWidth - IndentOf(line.Kind));
+            double h = line.Kind switch
             {
-                laid.Add(("", line.Kind, 9));
-                continue;
-            }
-            foreach (string piece in Wrap(rc, line.Text, size, weight, innerWidth))
+                BoxLineKind.Rule => 9,
+                BoxLineKind.Detail or BoxLineKind.Warning => size * 1.3,
+                _ => size * 1.45,
+            };
+            foreach (string piece in pieces)
             {
-                laid.Add((piece, line.Kind, size * (line.Kind == BoxLineKind.Detail ? 1.3 : 1.45)));
+                if (used + h > available)
+                {
+                    full = true;
+                    break;
+                }
+                laid.Add((piece, line.Kind, h));
+                used += h;
             }
-            if (line.Kind == BoxLineKind.Heading) laid.Add(("", BoxLineKind.Detail, 4));
+            if (full) break;
+            if (line.Kind == BoxLineKind.Heading) { laid.Add(("", BoxLineKind.Detail, 4)); used += 4; }
         }
-        double height = 2 * pad;
-        foreach (var l in laid) height += l.Height;
-        height = Math.Min(height, Math.Max(maxBottom - box.Top, 40));
+        if (full && laid.Count > 0)
+        {
+            var (lastText, lastKind, lastHeight) = laid[^1];
+            laid[^1] = (lastKind == BoxLineKind.Rule ? "…" : Ellipsize(rc, lastText + " …", 10.5, FontWeights.Normal, innerWidth), BoxLineKind.Detail, lastHeight);
+        }
 
-        var frame = new OxyRect(box.Left, box.Top, box.Width, height);
+        var frame = new OxyRect(box.Left, box.Top, box.Width, used + 2 * pad);
         rc.DrawRectangle(frame, PlotPalette.PanelFill, PlotPalette.PanelBorder, 1, EdgeRenderingMode.Automatic);
         rc.PushClip(frame);
         double y = box.Top + pad;
@@ -538,22 +593,25 @@ public static class FitPlotRenderer
                 OxyColor color = kind switch
                 {
                     BoxLineKind.Detail => PlotPalette.MutedText,
+                    BoxLineKind.Warning => PlotPalette.WarningText,
                     BoxLineKind.Status => StatusColor(result.Status),
                     _ => PlotPalette.Text,
                 };
-                double indent = kind == BoxLineKind.Detail ? 12 : 0;
-                rc.DrawText(new ScreenPoint(box.Left + pad + indent, y), text, color, PlotPalette.Font, size, weight);
+                rc.DrawText(new ScreenPoint(box.Left + pad + IndentOf(kind), y), text, color, PlotPalette.Font, size, weight);
             }
             y += h;
         }
         rc.PopClip();
     }
 
+    private static double IndentOf(BoxLineKind kind) => kind == BoxLineKind.Detail ? 12 : 0;
+
     private static (double Size, double Weight) StyleOf(BoxLineKind kind) => kind switch
     {
         BoxLineKind.Heading => (11.5, FontWeights.Bold),
         BoxLineKind.Value => (12.5, FontWeights.Normal),
         BoxLineKind.Status => (12.5, FontWeights.Bold),
+        BoxLineKind.Warning => (10.5, FontWeights.Normal),
         _ => (10.5, FontWeights.Normal),
     };
 

@@ -123,7 +123,7 @@ public static class HtmlReportWriter
         Row(sb, "Tool", E(run.ToolVersion));
         Row(sb, "Time", E(run.Time.ToString("yyyy-MM-dd HH:mm:ss zzz", Inv)));
         Row(sb, "Model", E(run.Model));
-        Row(sb, "Options", run.OptionsText.Length == 0 ? "—" : "<pre>" + E(run.OptionsText) + "</pre>");
+        Row(sb, "Options", string.IsNullOrEmpty(run.OptionsText) ? "—" : "<pre>" + E(run.OptionsText) + "</pre>");
         Row(sb, "Files", string.Create(Inv,
             $"{entries.Count}: <span class=\"st-ok\">{ok} ok</span>, <span class=\"st-poor-fit\">{poor} poor fit</span>, <span class=\"st-failed\">{failed} failed</span>"));
         sb.Append("</table>\n<p class=\"caution\"><strong>Caution.</strong> ").Append(E(CautionText)).Append("</p>\n</header>\n");
@@ -161,7 +161,7 @@ public static class HtmlReportWriter
             NumberCell(sb, r.Quality?.ReducedChiSquare, SummaryRow.ChiText(r));
             NumberCell(sb, r.TransitionVoltageV, SummaryRow.TransitionText(r));
             sb.Append("<td class=\"warn\" data-sort=\"").Append(r.Warnings.Length.ToString(Inv)).Append("\">");
-            if (r.Status == FitStatus.Failed && r.Error is not null) sb.Append("<div>").Append(E(r.Error)).Append("</div>");
+            if (r.Status == FitStatus.Failed && r.Error is not null) sb.Append("<div class=\"error\">error: ").Append(E(r.Error)).Append("</div>");
             foreach (string w in r.Warnings) sb.Append("<div>").Append(E(w)).Append("</div>");
             sb.Append("</td></tr>\n");
         }

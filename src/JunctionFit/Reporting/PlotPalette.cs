@@ -48,6 +48,9 @@ internal static class PlotPalette
     /// <summary>Status poor fit.</summary>
     public static readonly OxyColor StatusPoor = OxyColor.FromRgb(0xB0, 0x6A, 0x00);
 
+    /// <summary>Warning text: a darker amber than the status colour, readable at small sizes on the panel fill.</summary>
+    public static readonly OxyColor WarningText = OxyColor.FromRgb(0x8A, 0x53, 0x00);
+
     /// <summary>Status failed.</summary>
     public static readonly OxyColor StatusFailed = OxyColor.FromRgb(0xB0, 0x2E, 0x2E);
 

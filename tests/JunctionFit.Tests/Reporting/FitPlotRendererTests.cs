@@ -1,4 +1,3 @@
-using System.Diagnostics;
 using JunctionFit.Reporting;
 using SkiaSharp;
 using Xunit;
@@ -89,7 +88,7 @@ public class FitPlotRendererTests
         Assert.Contains(lines, l => l.Text == "reduced χ² = 1.03");
     }
 
-        private static int DistinctColours(SKBitmap bitmap)
+    private static int DistinctColours(SKBitmap bitmap)
     {
         var colours = new HashSet<uint>();
         for (int y = 0; y < bitmap.Height; y += 2)

@@ -67,6 +67,51 @@ internal static class ReportingFixtures
         Warnings = ["residuals show a systematic trend: the model does not describe the data", "thickness and area are strongly correlated (|ρ| > 0.99); fix the area"],
     };
 
+    /// <summary>A one-sided sweep with a 0.1 nA noise floor: many masked points near zero bias, a few of the wrong sign.</summary>
+    public static FitResult NoisyResult()
+    {
+        var model = new JunctionCurrentModel(SimmonsRectangularModel.Instance);
+        double[] p = [1.2 * PhysicalConstants.JoulePerElectronVolt, 2.1e-9, 1.0, 4e-11];
+        var spec = new SimulationSpec(0.0, 1.1, 221) { RelativeNoise = 0.04, NoiseFloorA = 1.5e-9, Seed = 3 };
+        var (v, i) = IvSimulator.Simulate(model, p, spec);
+        int n = v.Length;
+        var modelI = new double[n];
+        var used = new bool[n];
+        var residual = new double[n];
+        int usedCount = 0;
+        for (int k = 0; k < n; k++)
+        {
+            modelI[k] = model.Current(v[k], p);
+            used[k] = i[k] > 4e-9;
+            if (used[k]) usedCount++;
+            residual[k] = i[k] != 0 && modelI[k] != 0 ? Math.Log(Math.Abs(i[k])) - Math.Log(Math.Abs(modelI[k])) : double.NaN;
+        }
+        return OkResult("/data/kestrel/KM-A02/W11/a very long folder name that keeps going/die_12_07 (re-probe, second touchdown).csv", "KM-A02") with
+        {
+            Status = FitStatus.PoorFit,
+            Wafer = "W11",
+            DieX = 12,
+            DieY = 7,
+            Parameters =
+            [
+                new ParameterEstimate("barrier_height_eV", "φ", "eV", 1.2, 0.03, 1.14, 1.26, false),
+                new ParameterEstimate("thickness_nm", "d", "nm", 2.1, 0.04, 2.02, 2.18, false),
+                new ParameterEstimate("mass_ratio", "m*/mₑ", "", 0.62, 0.05, 0.53, 0.73, false),
+                new ParameterEstimate("area_m2", "A", "m²", 4e-11, null, null, null, false),
+            ],
+            Quality = new FitQuality(usedCount, n - usedCount, 37, 812.5, 4.1, true, "gradient below tolerance", "unscaled", "profile likelihood"),
+            Curve = new CurveSnapshot(v, i, [.. modelI], [.. used], [.. residual]),
+            TransitionVoltageV = null,
+            Warnings =
+            [
+                "the sweep reaches |V| = 1.1 V, at or above the fitted barrier height of 1.2 eV: the intermediate-bias Simmons formula is outside its range there; restrict the bias range or use a high-field model",
+                "thickness and mass ratio are strongly correlated (|ρ| = 0.995); fix the mass ratio or widen the bias range",
+                "the area's standard error could not be estimated",
+                "reduced χ² = 4.1: the model does not describe the data within the noise model",
+            ],
+        };
+    }
+
     public static FitResult FailedResult() =>
         FitResult.Failed("KM-A01/W07/die_05_05.csv", "simmons", "every point is below the noise floor; check the probe contact") with
         {
