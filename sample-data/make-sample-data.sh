@@ -12,12 +12,12 @@ while read -r lot wafer x y phi d area seed; do
   dir="sample-data/$lot/$wafer"
   mkdir -p "$dir"
   jf simulate --model simmons --barrier-height "$phi" --thickness "$d" --area "$area" \
-     --from -0.8 --to 0.8 --points 161 --noise 0.01 --seed "$seed" \
+     --from -0.8 --to 0.8 --points 161 --noise 0.01 --seed "$seed" --temperature 295 \
      --header "lab=Kestrel Microsystems, thin-film characterisation (invented)" \
      --header "product=KM-TJ4 aluminium-oxide tunnel junction test chip (invented)" \
      --header "lot=$lot" --header "wafer=$wafer" --header "die=$x,$y" \
      --header "area=$area um2" --header "temperature=295 K" \
-     --header "note=simulated: simmons phi=$phi eV d=$d nm area=$area um2 noise=1% seed=$seed" \
+     --header "note=simulated: simmons phi=$phi eV d=$d nm area=$area um2 T=295 K noise=1% seed=$seed" \
      > "$dir/die_${x}_${y}.csv"
 done <<'TABLE'
 # lot    wafer x y phi  d     area seed

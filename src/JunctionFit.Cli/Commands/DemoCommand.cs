@@ -1,4 +1,5 @@
 using System.CommandLine;
+using JunctionFit.Fitting;
 
 namespace JunctionFit.Cli.Commands;
 
@@ -24,16 +25,16 @@ internal static class DemoCommand
             if (!Directory.Exists(folder)) throw new UsageException($"demo: --data {folder}: no such folder");
             string relative = Path.GetRelativePath(Directory.GetCurrentDirectory(), folder);
             if (!relative.StartsWith("..", StringComparison.Ordinal) && !Path.IsPathRooted(relative)) folder = relative;
-            var (model, options, summary) = fitOptions.Build(parse);
+            var (plan, summary) = fitOptions.Build(parse);
             if (parse.GetValue(fitOptions.Area) is null && !parse.GetValue(fitOptions.AreaFromFile))
             {
                 // The demo lot states each die's drawn area; fitting with the area known is how the lab works.
-                options = options with { FixAreaFromMetadata = true };
+                plan = new FitPlan(plan.ModelNames, plan.ModelOptions, plan.Parasitics, plan.Options with { FixAreaFromMetadata = true }, plan.TemperatureFromFile);
                 summary = summary.Replace("area free", "area fixed at each file's stated area", StringComparison.Ordinal);
             }
             string outPath = parse.GetValue(outDir) ?? "junctionfit-demo";
             context.Error.WriteLine($"junctionfit demo: fitting the sample lot in {folder} ({summary})");
-            var run = new FitRun(context, model, options, summary, json: false, outDir: outPath, plotSubfolder: "plots", jobs: Environment.ProcessorCount);
+            var run = new FitRun(context, plan, summary, json: false, outDir: outPath, plotSubfolder: "plots", jobs: Environment.ProcessorCount);
             int code = run.Execute([folder]);
             string full = Path.GetFullPath(outPath);
             context.Error.WriteLine($"junctionfit demo: report  {Path.Combine(full, "report.html")}");

@@ -11,7 +11,7 @@ namespace JunctionFit.Cli.Commands;
 /// small ordered chunks, so results appear in a deterministic order and memory does not grow with the file count
 /// (curves are dropped once their plot is written).
 /// </summary>
-internal sealed class FitRun(CliContext context, JunctionCurrentModel model, FitOptions options, string optionSummary,
+internal sealed class FitRun(CliContext context, FitPlan plan, string optionSummary,
     bool json, string? outDir, string? plotSubfolder, int jobs)
 {
     private const int ChunkSize = 64;
@@ -24,7 +24,7 @@ internal sealed class FitRun(CliContext context, JunctionCurrentModel model, Fit
         {
             context.Error.WriteLine($"{m}:0: no such file or folder");
             unreadable++;
-            if (json) context.Out.WriteLine(FitJsonFormatter.Format(FitResult.Failed(m, model.Barrier.Name, "no such file or folder")));
+            if (json) context.Out.WriteLine(FitJsonFormatter.Format(FitResult.Failed(m, plan.DisplayName, "no such file or folder")));
         }
         if (files.Count == 0 && missing.Count == 0)
         {
@@ -75,7 +75,22 @@ internal sealed class FitRun(CliContext context, JunctionCurrentModel model, Fit
             }
         }
 
-        if (!json) context.Out.Write(SummaryTableWriter.FormatConsoleTable(summaries));
+        if (!json)
+        {
+            context.Out.Write(SummaryTableWriter.FormatConsoleTable(summaries));
+            foreach (var r in summaries)
+            {
+                if (r.ModelComparison.Length == 0) continue;
+                context.Out.WriteLine();
+                context.Out.WriteLine($"model selection for {r.SourcePath} (AICc, lower is better; ok fits preferred):");
+                context.Out.WriteLine($"  {"model",-16} {"status",-9} {"k",2} {"points",6} {"AICc",12}");
+                foreach (var row in r.ModelComparison)
+                {
+                    string aicc = row.Aicc is double a ? a.ToString("0.00", System.Globalization.CultureInfo.InvariantCulture) : "-";
+                    context.Out.WriteLine($"  {row.Model,-16} {FitJsonFormatter.StatusText(row.Status),-9} {row.FreeParameters,2} {row.PointsUsed,6} {aicc,12}{(row.Chosen ? "  <- chosen" : "")}");
+                }
+            }
+        }
         if (outDir is not null)
         {
             string csv = Path.Combine(outDir, "summary.csv");
@@ -83,7 +98,7 @@ internal sealed class FitRun(CliContext context, JunctionCurrentModel model, Fit
             SummaryTableWriter.WriteCsv(csv, summaries);
             var entries = new List<HtmlReportEntry>(summaries.Count);
             for (int k = 0; k < summaries.Count; k++) entries.Add(new HtmlReportEntry(summaries[k]) { PlotPath = plotFiles[k] });
-            HtmlReportWriter.Write(html, new HtmlRunInfo(VersionInfo.Text, DateTimeOffset.Now, model.Barrier.Name, optionSummary), entries);
+            HtmlReportWriter.Write(html, new HtmlRunInfo(VersionInfo.Text, DateTimeOffset.Now, plan.DisplayName, optionSummary), entries);
             context.Error.WriteLine($"junctionfit: wrote {plotFiles.Count(p => p is not null)} plot(s), {csv} and {html}");
         }
         if (fitted == 0) return ExitCodes.UsageOrInput;
@@ -99,13 +114,13 @@ internal sealed class FitRun(CliContext context, JunctionCurrentModel model, Fit
         }
         catch (IvFormatException e)
         {
-            return new Outcome(FitResult.Failed(path, model.Barrier.Name, e.Reason), e.Message);
+            return new Outcome(FitResult.Failed(path, plan.DisplayName, e.Reason), e.Message);
         }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException)
         {
-            return new Outcome(FitResult.Failed(path, model.Barrier.Name, e.Message), $"{path}:0: cannot read: {e.Message}");
+            return new Outcome(FitResult.Failed(path, plan.DisplayName, e.Message), $"{path}:0: cannot read: {e.Message}");
         }
-        return new Outcome(JunctionFitter.Fit(curve, model, options), null);
+        return new Outcome(plan.Fit(curve), null);
     }
 
     /// <summary>
