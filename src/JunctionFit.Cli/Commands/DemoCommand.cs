@@ -34,7 +34,7 @@ internal static class DemoCommand
             }
             string outPath = parse.GetValue(outDir) ?? "junctionfit-demo";
             context.Error.WriteLine($"junctionfit demo: fitting the sample lot in {folder} ({summary})");
-            var run = new FitRun(context, plan, summary, json: false, outDir: outPath, plotSubfolder: "plots", jobs: Environment.ProcessorCount);
+            var run = new FitRun(context, plan, JunctionFit.Import.IvReadOptions.Default, summary, json: false, outDir: outPath, plotSubfolder: "plots", jobs: Environment.ProcessorCount);
             int code = run.Execute([folder]);
             string full = Path.GetFullPath(outPath);
             context.Error.WriteLine($"junctionfit demo: report  {Path.Combine(full, "report.html")}");

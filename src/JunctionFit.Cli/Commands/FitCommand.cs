@@ -235,12 +235,14 @@ internal static class FitCommand
         command.Options.Add(json);
         command.Options.Add(outDir);
         command.Options.Add(jobs);
+        var read = new ReadOptionSet();
+        read.AddTo(command);
         command.SetAction(parse =>
         {
             var (plan, summary) = fitOptions.Build(parse);
             int jobCount = parse.GetValue(jobs) ?? Environment.ProcessorCount;
             if (jobCount < 1) throw new UsageException($"--jobs: {jobCount} must be at least 1");
-            var run = new FitRun(context, plan, summary, parse.GetValue(json), parse.GetValue(outDir), null, jobCount);
+            var run = new FitRun(context, plan, read.Build(parse), summary, parse.GetValue(json), parse.GetValue(outDir), null, jobCount);
             return run.Execute(parse.GetValue(paths) ?? []);
         });
         return command;

@@ -11,7 +11,7 @@ namespace JunctionFit.Cli.Commands;
 /// small ordered chunks, so results appear in a deterministic order and memory does not grow with the file count
 /// (curves are dropped once their plot is written).
 /// </summary>
-internal sealed class FitRun(CliContext context, FitPlan plan, string optionSummary,
+internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions readOptions, string optionSummary,
     bool json, string? outDir, string? plotSubfolder, int jobs)
 {
     private const int ChunkSize = 64;
@@ -110,7 +110,7 @@ internal sealed class FitRun(CliContext context, FitPlan plan, string optionSumm
         IvCurve curve;
         try
         {
-            curve = IvFileReader.ReadFile(path);
+            curve = IvFileReader.ReadFile(path, readOptions);
         }
         catch (IvFormatException e)
         {
