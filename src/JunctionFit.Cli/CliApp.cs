@@ -19,6 +19,9 @@ public static class CliApp
         root.Subcommands.Add(SimulateCommand.Create(context));
         root.Subcommands.Add(DemoCommand.Create(context));
         root.Subcommands.Add(InspectCommand.Create(context));
+        root.Subcommands.Add(BatchCommand.Create(context));
+        root.Subcommands.Add(DriftCommand.Create(context));
+        root.Subcommands.Add(ThicknessCommand.Create(context));
         var parse = root.Parse(args);
         if (parse.Errors.Count > 0)
         {

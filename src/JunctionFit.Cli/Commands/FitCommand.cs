@@ -92,7 +92,7 @@ internal sealed class FitOptionSet
     }
 
     /// <summary>Parasitic parameters that <c>--free</c> or <c>--fix</c> switch on by naming them.</summary>
-    private static readonly (ParameterDefinition Def, Func<ParasiticOptions, ParasiticOptions> Enable)[] ParasiticSwitches =
+    internal static readonly (ParameterDefinition Def, Func<ParasiticOptions, ParasiticOptions> Enable)[] ParasiticSwitches =
     [
         (StandardParameters.SeriesResistance, o => o with { SeriesResistance = true }),
         (StandardParameters.LeakageConductance, o => o with { LeakageConductance = true }),

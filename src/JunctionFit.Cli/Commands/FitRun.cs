@@ -14,8 +14,6 @@ namespace JunctionFit.Cli.Commands;
 internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions readOptions, string optionSummary,
     bool json, string? outDir, string? plotSubfolder, int jobs)
 {
-    private const int ChunkSize = 64;
-
     public int Execute(IReadOnlyList<string> paths)
     {
         var (files, missing) = InputFiles.Expand(paths);
@@ -37,43 +35,35 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
         var summaries = new List<FitResult>(files.Count);
         var plotFiles = new List<string?>(files.Count);
         int fitted = 0, notOk = 0;
-        var outcomes = new Outcome[Math.Min(ChunkSize, Math.Max(files.Count, 1))];
-        var parallel = new ParallelOptions { MaxDegreeOfParallelism = jobs };
         var usedPlotNames = new HashSet<string>(StringComparer.Ordinal);
-        for (int start = 0; start < files.Count; start += ChunkSize)
+        CurvePipeline.Run(files, readOptions, plan, jobs, (_, outcome) =>
         {
-            int count = Math.Min(ChunkSize, files.Count - start);
-            Parallel.For(0, count, parallel, k => outcomes[k] = Process(files[start + k]));
-            for (int k = 0; k < count; k++)
+            if (outcome.ReadError is not null)
             {
-                var outcome = outcomes[k];
-                if (outcome.ReadError is not null)
-                {
-                    context.Error.WriteLine(outcome.ReadError);
-                    unreadable++;
-                }
-                else
-                {
-                    fitted++;
-                }
-                var result = outcome.Result;
-                if (result.Status != FitStatus.Ok) notOk++;
-                if (result.Status == FitStatus.Failed && outcome.ReadError is null)
-                {
-                    context.Error.WriteLine($"{result.SourcePath}:0: fit failed: {result.Error}");
-                }
-                if (json) context.Out.WriteLine(FitJsonFormatter.Format(result));
-                string? plot = null;
-                if (plotDir is not null && result.Curve is not null)
-                {
-                    plot = Path.Combine(plotDir, UniquePlotName(result.SourcePath, usedPlotNames));
-                    FitPlotRenderer.WritePng(result, plot);
-                }
-                summaries.Add(result with { Curve = null });
-                plotFiles.Add(plot);
-                outcomes[k] = default;
+                context.Error.WriteLine(outcome.ReadError);
+                unreadable++;
             }
-        }
+            else
+            {
+                fitted++;
+            }
+            var result = outcome.Result;
+            if (result.Status != FitStatus.Ok) notOk++;
+            if (result.Status == FitStatus.Failed && outcome.ReadError is null)
+            {
+                context.Error.WriteLine($"{result.SourcePath}:0: fit failed: {result.Error}");
+            }
+            if (json) context.Out.WriteLine(FitJsonFormatter.Format(result));
+            string? plot = null;
+            if (plotDir is not null && result.Curve is not null)
+            {
+                plot = Path.Combine(plotDir, UniquePlotName(result.SourcePath, usedPlotNames));
+                FitPlotRenderer.WritePng(result, plot);
+            }
+            summaries.Add(result with { Curve = null });
+            plotFiles.Add(plot);
+        });
+        FailedCount = summaries.Count(r => r.Status == FitStatus.Failed);
 
         if (!json)
         {
@@ -105,29 +95,14 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
         return notOk == 0 && unreadable == 0 ? ExitCodes.Success : ExitCodes.SomeFailed;
     }
 
-    private Outcome Process(string path)
-    {
-        IvCurve curve;
-        try
-        {
-            curve = IvFileReader.ReadFile(path, readOptions);
-        }
-        catch (IvFormatException e)
-        {
-            return new Outcome(FitResult.Failed(path, plan.DisplayName, e.Reason), e.Message);
-        }
-        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
-        {
-            return new Outcome(FitResult.Failed(path, plan.DisplayName, e.Message), $"{path}:0: cannot read: {e.Message}");
-        }
-        return new Outcome(plan.Fit(curve), null);
-    }
+    /// <summary>Number of results with status failed in the last run.</summary>
+    public int FailedCount { get; private set; }
 
     /// <summary>
     /// A plot file name from the input path relative to the working directory, folders joined by '_'
     /// (lot/wafer/die_3_4.csv → lot_wafer_die_3_4.png), made unique within the run.
     /// </summary>
-    private static string UniquePlotName(string sourcePath, HashSet<string> used)
+    internal static string UniquePlotName(string sourcePath, HashSet<string> used)
     {
         string relative = Path.GetRelativePath(Directory.GetCurrentDirectory(), sourcePath);
         if (relative.StartsWith("..", StringComparison.Ordinal) || Path.IsPathRooted(relative)) relative = Path.GetFileName(sourcePath);
@@ -140,5 +115,4 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
         return name;
     }
 
-    private readonly record struct Outcome(FitResult Result, string? ReadError);
 }

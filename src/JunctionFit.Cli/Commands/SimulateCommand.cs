@@ -41,9 +41,24 @@ internal static class SimulateCommand
             if (er is double e && (!(e >= 1) || !double.IsFinite(e))) throw new UsageException($"--permittivity: {e} must be at least 1");
             var modelOptions = BarrierModelOptions.Default with { TemperatureK = t };
             if (er is double eps) modelOptions = modelOptions with { RelativePermittivity = eps };
-            var junction = new JunctionCurrentModel(ModelResolver.Resolve(parse.GetValue(model) ?? "simmons", modelOptions));
+            var parasitics = ParasiticOptions.None;
+            foreach (string item in parse.GetValue(set) ?? [])
+            {
+                string name = item.Split('=')[0].Trim();
+                foreach (var (def, enable) in FitOptionSet.ParasiticSwitches)
+                {
+                    if (string.Equals(name, def.Key, StringComparison.OrdinalIgnoreCase) ||
+                        string.Equals(name, ParameterNames.CliName(def), StringComparison.OrdinalIgnoreCase)) parasitics = enable(parasitics);
+                }
+            }
+            var junction = new JunctionCurrentModel(ModelResolver.Resolve(parse.GetValue(model) ?? "simmons", modelOptions), parasitics);
             var theta = new double[junction.Parameters.Count];
             for (int k = 0; k < theta.Length; k++) theta[k] = junction.Parameters[k].DefaultSi;
+            // Parasitic elements named with --set start from "absent", not from their fit start values.
+            foreach (int? idx in new[] { junction.SeriesResistanceIndex, junction.LeakageConductanceIndex, junction.VoltageOffsetIndex, junction.CurrentOffsetIndex })
+            {
+                if (idx is int k) theta[k] = 0.0;
+            }
             void Set(string name, double si, string option)
             {
                 int k = junction.IndexOf(ParameterNames.Find(junction, name, option).Key);
