@@ -144,7 +144,25 @@ internal static class ThicknessCommand
             var (comparison, wafers, _, plot) = LotAnalyses.Thickness(rows.Value, ell, plan, read.Build(parse), dir, parse.GetValue(jobs) ?? Environment.ProcessorCount, parse.GetValue(tolerance));
             if (parse.GetValue(json))
             {
-                context.Out.WriteLine(LotsJsonFormatter.FormatThickness(comparison));
+                var node = System.Text.Json.Nodes.JsonNode.Parse(LotsJsonFormatter.FormatThickness(comparison))!.AsObject();
+                var array = new System.Text.Json.Nodes.JsonArray();
+                foreach (var w in wafers)
+                {
+                    array.Add(new System.Text.Json.Nodes.JsonObject
+                    {
+                        ["lot"] = w.Lot,
+                        ["wafer"] = w.Wafer,
+                        ["ellipsometry_nm"] = w.EllipsometricNm,
+                        ["electrical_median_nm"] = w.ElectricalMedianNm,
+                        ["dies_refitted"] = w.Dies,
+                        ["f"] = w.Test?.F,
+                        ["p_value"] = w.Test?.PValue,
+                        ["flagged"] = w.Flagged,
+                        ["verdict"] = w.Note,
+                    });
+                }
+                node["wafers"] = array;
+                context.Out.WriteLine(node.ToJsonString());
             }
             else if (comparison.Agreement is { } a)
             {
@@ -156,7 +174,7 @@ internal static class ThicknessCommand
             {
                 context.Out.WriteLine($"no agreement statistics: {comparison.Reason}");
             }
-            foreach (var w in wafers)
+            foreach (var w in parse.GetValue(json) ? [] : wafers)
             {
                 string verdict = w.Test is { } t ? $"F = {t.F:G4}, p = {t.PValue:G3}: {w.Note}" : w.Note;
                 context.Out.WriteLine($"wafer {w.Lot}/{w.Wafer} (ellipsometry {LotAnalyses.Num(w.EllipsometricNm)} nm, {w.Dies} dies refitted with d fixed): {verdict}");
