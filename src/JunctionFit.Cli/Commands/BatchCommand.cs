@@ -120,7 +120,8 @@ internal static class BatchCommand
             var dies = wafer.ToList();
             foreach (string key in MapKeys)
             {
-                if (!dies.Any(d => d.Find(key) is not null)) continue;
+                // A parameter held fixed on every die (the area with --area) has nothing to map.
+                if (!dies.Any(d => d.Find(key) is { StandardError: not null })) continue;
                 byte[] png = WaferMapRenderer.RenderPng(dies, key);
                 AtomicFile.WriteAllBytes(Path.Combine(mapDir, WaferMapRenderer.FileName(wafer.Key.Item1, wafer.Key.Item2, key)), png);
                 maps.Add(new HtmlImage($"lot {wafer.Key.Item1}, wafer {wafer.Key.Item2}: {key}", png));

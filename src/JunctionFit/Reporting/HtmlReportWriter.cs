@@ -482,6 +482,12 @@ public static class HtmlReportWriter
 
     /// <summary>Sorts a table body by the clicked column: numbers from data-sort when present (empty last), otherwise text.</summary>
     private const string SortScript = """
+        window.addEventListener('load', function () {
+          var imgs = document.images, broken = 0;
+          for (var i = 0; i < imgs.length; i++) { if (!imgs[i].complete || imgs[i].naturalWidth === 0) broken++; }
+          document.documentElement.setAttribute('data-images', String(imgs.length));
+          document.documentElement.setAttribute('data-broken-images', String(broken));
+        });
         (function () {
           function key(cell) {
             var s = cell.getAttribute('data-sort');

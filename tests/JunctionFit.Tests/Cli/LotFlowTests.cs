@@ -50,7 +50,7 @@ public class LotFlowTests
         Assert.Equal(27, resultLines.Skip(1).Select(l => l.Split(',')[0]).Distinct().Count());
         Assert.StartsWith("file,lot,wafer,die_x,die_y,model,status,barrier_height_eV,barrier_height_eV_stderr,barrier_height_eV_lo,barrier_height_eV_hi", resultLines[0], StringComparison.Ordinal);
         Assert.True(File.Exists(Path.Combine(outDir, "report.html")));
-        Assert.Equal(9, Directory.GetFiles(Path.Combine(outDir, "maps"), "wafer-*.png").Length); // 3 wafers × φ, d, area
+        Assert.Equal(6, Directory.GetFiles(Path.Combine(outDir, "maps"), "wafer-*.png").Length); // 3 wafers × φ, d (the area is fixed)
         Assert.False(Directory.Exists(Path.Combine(outDir, "plots")) && Directory.GetFiles(Path.Combine(outDir, "plots")).Length > 0);
 
         var (driftCode, driftOut, driftErr) = CliRunner.Run("drift", Path.Combine(outDir, "results.csv"), "--reference", "KM-C01", "--json");
