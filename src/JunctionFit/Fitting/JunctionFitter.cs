@@ -336,6 +336,7 @@ public static class JunctionFitter
             CorrelationRowMajor = corr.ToImmutable(),
             Curve = new CurveSnapshot(curve.VoltageV, curve.CurrentA, ImmutableArray.Create(modelCurrent),
                 ImmutableArray.Create(used), ImmutableArray.Create(logResidual)),
+            ModelValidity = model.Barrier.ValidityRange,
             TransitionVoltageV = transition.PositiveV,
             TransitionVoltageNegativeV = transition.NegativeV,
             Lot = curve.Lot,
