@@ -25,7 +25,8 @@ namespace JunctionFit.Fitting;
 /// Root finding per side: h(δ) = √max(S_p(x̂ ± δ) − S_min, 0) − √(S_c − S_min), the profile-t statistic up to a constant,
 /// is close to linear in δ, so the first probe at the Wald half-width usually lands near the root. The probe distance
 /// doubles until h changes sign (a bracket), then Brent's method (R. P. Brent, Algorithms for Minimization without
-/// Derivatives, Prentice-Hall 1973) refines the crossing to <see cref="RelativeTolerance"/> of the Wald half-width. Each
+/// Derivatives, Prentice-Hall 1973) refines the crossing to <see cref="RelativeTolerance"/> of the first probe distance (the Wald half-width, at most
+/// <see cref="MaxFirstStep"/>). Each
 /// refit starts from the other parameters of the previous probe on the same side (warm start through
 /// <see cref="FitOptions.StartValues"/>). A side that does not cross before the physical bound (or before
 /// <see cref="MaxSearchSpan"/> in x for a bound at infinity in x, such as 0 for a log-transformed parameter) is reported as
@@ -62,6 +63,10 @@ public static class ProfileLikelihoodIntervals
 
     /// <summary>Probe distance used when the fit gives no standard error for a parameter, in the solver variable.</summary>
     public const double FallbackStep = 0.1;
+
+    /// <summary>Largest first probe distance in the solver variable (a factor e for a log parameter), for fits whose Wald
+    /// standard error is meaninglessly large.</summary>
+    public const double MaxFirstStep = 1.0;
 
     /// <summary>Computes profile-likelihood intervals for every free parameter of <paramref name="fit"/>.</summary>
     /// <param name="curve">The curve that was fitted.</param>
@@ -120,7 +125,7 @@ public static class ProfileLikelihoodIntervals
             {
                 double dThetaDx = Math.Abs(ParameterTransforms.Derivative(def, thetaHat[k]));
                 double seX = dThetaDx > 0 ? def.FromDisplay(se) / dThetaDx : double.NaN;
-                if (double.IsFinite(seX) && seX > 0) step = waldQuantile * seX;
+                if (double.IsFinite(seX) && seX > 0) step = Math.Min(waldQuantile * seX, MaxFirstStep);
             }
             var lower = profile.Side(-1, xHat, step);
             var upper = profile.Side(+1, xHat, step);
@@ -181,7 +186,8 @@ public static class ProfileLikelihoodIntervals
             bool limitIsBound = double.IsFinite(xBound) && Math.Abs(xBound - xHat) <= MaxSearchSpan;
 
             double a = 0, ha = -_rootDeltaS;
-            double b = Math.Min(firstStep, limit), hb = H(sign, xHat, b, limitIsBound && b >= limit);
+            double first = Math.Min(firstStep, limit);
+            double b = first, hb = H(sign, xHat, b, limitIsBound && b >= limit);
             int expansions = 0;
             while (hb < 0)
             {
@@ -191,7 +197,7 @@ public static class ProfileLikelihoodIntervals
                 b = Math.Min(2 * b, limit);
                 hb = H(sign, xHat, b, limitIsBound && b >= limit);
             }
-            double delta = Brent(sign, xHat, a, ha, b, hb, RelativeTolerance * firstStep);
+            double delta = Brent(sign, xHat, a, ha, b, hb, RelativeTolerance * first);
             return new End(ParameterTransforms.FromSolver(_def, xHat + sign * delta), false);
         }
 
