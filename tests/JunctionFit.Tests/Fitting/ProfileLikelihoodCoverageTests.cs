@@ -11,14 +11,14 @@ namespace JunctionFit.Tests.Fitting;
 /// Acceptance band: 95 % ± 3 binomial standard deviations (normal approximation; a correct method fails it by chance about
 /// 3 times in 1000 runs). For R replicates the standard deviation of the covered count is √(R·0.95·0.05):
 /// area known, R = 1000: 6.89, band 950 ± 20.7 → 930…970 covered;
-/// area free (three refitted profiles per curve, about three times the cost), R = 500: 4.87, band 475 ± 14.6 → 461…489.
+/// area free (three refitted profiles per curve, about three times the cost), R = 400: 4.36, band 380 ± 13.1 → 367…393.
 /// </summary>
 public class ProfileLikelihoodCoverageTests(ITestOutputHelper output)
 {
     public static TheoryData<bool, int, int, int> Cases => new()
     {
         { true, 1000, 930, 970 },
-        { false, 500, 461, 489 },
+        { false, 400, 367, 393 },
     };
 
     [Theory]
