@@ -33,14 +33,14 @@ public sealed record FitOptions
     public LevenbergMarquardtOptions Solver { get; init; } = DefaultSolver;
 
     /// <summary>
-    /// Solver settings for junction fits: relative reduction and step tolerances of 1e-10 (far below the noise of any
+    /// Solver settings for junction fits: relative reduction and step tolerances of 1e-9 (far below the noise of any
     /// measured curve), and up to 2000 iterations because an area-free fit can crawl along a curved, nearly flat valley.
     /// </summary>
     public static LevenbergMarquardtOptions DefaultSolver { get; } = new()
     {
         MaxIterations = 2000,
-        RelativeReductionTolerance = 1e-10,
-        StepTolerance = 1e-10,
+        RelativeReductionTolerance = 1e-9,
+        StepTolerance = 1e-9,
     };
 
     /// <summary>Number of grid starts refined by the solver (multi-start), at least 1.</summary>

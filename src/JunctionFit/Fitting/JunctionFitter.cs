@@ -106,7 +106,13 @@ public static class JunctionFitter
         foreach (var start in starts)
         {
             var x0 = new double[iterIndex.Length];
-            for (int j = 0; j < iterIndex.Length; j++) x0[j] = ParameterTransforms.ToSolver(defs[iterIndex[j]], start[iterIndex[j]]);
+            bool finite = true;
+            for (int j = 0; j < iterIndex.Length; j++)
+            {
+                x0[j] = ParameterTransforms.ToSolver(defs[iterIndex[j]], start[iterIndex[j]]);
+                finite &= double.IsFinite(x0[j]);
+            }
+            if (!finite) continue;
             var solution = LevenbergMarquardtSolver.Minimize(problem, x0, options.Solver);
             iterations += solution.Iterations;
             if (!double.IsFinite(solution.ResidualSumOfSquares)) continue;
@@ -124,6 +130,13 @@ public static class JunctionFitter
             // Polish in all free parameters from the profiled optimum: converges at once and gives the full Jacobian
             // (area included) for the covariance.
             var thetaBest = problem.ToTheta(best.Parameters.AsSpan());
+            if (!Array.TrueForAll(thetaBest, double.IsFinite) || !(thetaBest[model.AreaIndex] > 0))
+            {
+                return FitResult.Failed(curve.SourcePath, modelName,
+                    $"the {modelName} model cannot describe this curve at any effective area (the best area is not a finite positive number); " +
+                    "check that the model suits the bias range, or fix the area (--area)") with
+                { Lot = curve.Lot, Wafer = curve.Wafer, DieX = curve.DieX, DieY = curve.DieY };
+            }
             fullProblem = new LogCurrentProblem(model, vUsed, yUsed, invSigma, freeIndex, thetaBest);
             var x0 = new double[freeIndex.Length];
             for (int j = 0; j < freeIndex.Length; j++) x0[j] = ParameterTransforms.ToSolver(defs[freeIndex[j]], thetaBest[freeIndex[j]]);
@@ -173,18 +186,38 @@ public static class JunctionFitter
         double condition = 1.0;
         if (covOk)
         {
-            var jac = Matrix<double>.Build.Dense(m, nFree, (i, j) => best.JacobianRowMajor[i * nFree + j]);
-            // Column scaling so that the condition number reflects identifiability, not units.
+            // Column norms, then the column-scaled Jacobian in column-major order (no per-element delegates).
             var colNorm = new double[nFree];
+            for (int i = 0; i < m; i++)
+            for (int j = 0; j < nFree; j++) colNorm[j] += best.JacobianRowMajor[i * nFree + j] * best.JacobianRowMajor[i * nFree + j];
             for (int j = 0; j < nFree; j++)
             {
-                colNorm[j] = jac.Column(j).L2Norm();
-                if (colNorm[j] == 0) { covOk = false; }
+                colNorm[j] = Math.Sqrt(colNorm[j]);
+                if (!(colNorm[j] > 0) || !double.IsFinite(colNorm[j])) covOk = false;
             }
             if (covOk)
             {
-                var scaled = Matrix<double>.Build.Dense(m, nFree, (i, j) => jac[i, j] / colNorm[j]);
-                var svd = scaled.Svd(computeVectors: true);
+                var columnMajor = new double[m * nFree];
+                for (int i = 0; i < m; i++)
+                for (int j = 0; j < nFree; j++) columnMajor[j * m + i] = best.JacobianRowMajor[i * nFree + j] / colNorm[j];
+                // J̃·P = Q·R by our pivoted Householder QR, then the SVD of the small n×n R: R = U S Wᵀ, so
+                // J̃ = Q U S (P W)ᵀ and the right singular vectors of J̃ are the rows of W permuted back by P.
+                var pivot = new int[nFree];
+                var rdiag = new double[nFree];
+                var norms = new double[nFree];
+                var work = new double[nFree];
+                PivotedQr.Factor(m, nFree, columnMajor, pivot, rdiag, norms, work);
+                var r = Matrix<double>.Build.Dense(nFree, nFree);
+                for (int i = 0; i < nFree; i++)
+                {
+                    r[i, i] = rdiag[i];
+                    for (int j = i + 1; j < nFree; j++) r[i, j] = columnMajor[j * m + i];
+                }
+                var small = r.Svd(computeVectors: true);
+                var vtPermuted = Matrix<double>.Build.Dense(nFree, nFree);
+                for (int sIdx = 0; sIdx < nFree; sIdx++)
+                for (int i = 0; i < nFree; i++) vtPermuted[sIdx, pivot[i]] = small.VT[sIdx, i];
+                var svd = (S: small.S, VT: vtPermuted);
                 double sMax = svd.S[0], sMin = svd.S[nFree - 1];
                 condition = sMin > 0 ? sMax / sMin : double.PositiveInfinity;
                 if (sMin <= sMax * 1e-14)
@@ -475,10 +508,10 @@ public static class JunctionFitter
     }
 
     /// <summary>Grid cells per free barrier parameter.</summary>
-    private const int GridSize = 12;
+    private const int GridSize = 9;
 
     /// <summary>Points of the curve used to rank grid cells.</summary>
-    private const int GridPoints = 48;
+    private const int GridPoints = 32;
 
     private static double GridPhi(int a) => PhysicalConstants.JoulePerElectronVolt * 0.2 * Math.Pow(30.0, a / (GridSize - 1.0));
 

@@ -119,7 +119,8 @@ public static class LinearizedCovariance
             }
         }
 
-        var svd = scaled.Svd(computeVectors: true);
+        // SVD of R from a thin QR: same singular values and right vectors, without the m×m left factor.
+        var svd = scaled.QR(MathNet.Numerics.LinearAlgebra.Factorization.QRMethod.Thin).R.Svd(computeVectors: true);
         var sigma = svd.S;
         var vt = svd.VT;
         double smax = sigma[0];
