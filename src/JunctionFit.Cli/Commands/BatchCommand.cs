@@ -20,6 +20,9 @@ internal static class BatchCommand
     /// <summary>Fits that get a section of their own in the report (failed and poor fits first).</summary>
     public const int ReportSectionLimit = 40;
 
+    /// <summary>Rows of the report's summary table (the full table is results.csv), so the report stays readable and small.</summary>
+    public const int ReportSummaryLimit = 2000;
+
     /// <summary>Parameters drawn as wafer maps.</summary>
     public static readonly string[] MapKeys = ["barrier_height_eV", "thickness_nm", "area_m2"];
 
@@ -207,15 +210,17 @@ internal static class BatchCommand
         }
         if (s.ExtraSections is not null) sections.InsertRange(0, s.ExtraSections(rows));
         var shown = new HashSet<int>(reportCandidates.Select(c => c.Index));
-        var entries = new List<HtmlReportEntry>(rows.Count);
+        var entries = new List<HtmlReportEntry>(Math.Min(rows.Count, ReportSummaryLimit));
         var byIndex = reportCandidates.ToDictionary(c => c.Index);
+        int okListed = 0, okTotal = rows.Count(r => r.Status == FitStatus.Ok);
+        int okBudget = Math.Max(0, ReportSummaryLimit - (rows.Count - okTotal));
         for (int i = 0; i < rows.Count; i++)
         {
             if (byIndex.TryGetValue(i, out var c))
             {
                 entries.Add(new HtmlReportEntry(c.Result) { PlotPath = c.Plot, ShowSection = true });
             }
-            else
+            else if (rows[i].Status != FitStatus.Ok || okListed++ < okBudget)
             {
                 entries.Add(new HtmlReportEntry(RowAsResult(rows[i])) { ShowSection = false });
             }
@@ -226,7 +231,8 @@ internal static class BatchCommand
             Title = "JunctionFit lot report",
             Sections = sections,
             SummaryNote = rows.Count > shown.Count
-                ? $"{shown.Count} of {rows.Count} fits have a section of their own below (failed and poor fits first); every fit is in {ResultsCsv.FileName}" +
+                ? (entries.Count < rows.Count ? $"The table lists {entries.Count} of {rows.Count} fits (every failed and poor fit, then ok fits in order). " : "") +
+                  $"{shown.Count} of {rows.Count} fits have a section of their own below (failed and poor fits first); every fit is in {ResultsCsv.FileName}" +
                   (s.Plots ? " and has its plot in plots/." : ".")
                 : null,
         };
