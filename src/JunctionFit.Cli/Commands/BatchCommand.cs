@@ -140,7 +140,9 @@ internal static class BatchCommand
                 {
                     return new CurveOutcome(files[k], previous.Result with { SourcePath = files[k] }, null) { FromStore = true };
                 }
-                return CurvePipeline.Process(files[k], s.ReadOptions, s.Plan);
+                var fitted = CurvePipeline.Process(files[k], s.ReadOptions, s.Plan);
+                // Render on the worker thread; the ordered consumer only writes the bytes.
+                return s.Plots && fitted.Result.Curve is not null ? fitted with { PlotPng = FitPlotRenderer.RenderPng(fitted.Result) } : fitted;
             }
             CurvePipeline.Run(files.Count, Process, s.Jobs, (index, outcome) =>
             {
@@ -156,10 +158,10 @@ internal static class BatchCommand
                 var result = outcome.Result;
                 if (result.Status != FitStatus.Ok) notOk++;
                 string? plot = null;
-                if (s.Plots && result.Curve is not null)
+                if (outcome.PlotPng is { } png)
                 {
                     plot = Path.Combine(plotDir, FitRun.UniquePlotName(result.SourcePath, plotNames));
-                    FitPlotRenderer.WritePng(result, plot);
+                    AtomicFile.WriteAllBytes(plot, png);
                 }
                 var row = ResultRow.FromFitResult(result);
                 writer.Write(ResultsCsv.FormatRow(row, keys));

@@ -12,6 +12,9 @@ internal readonly record struct CurveOutcome(string Path, FitResult Result, stri
 {
     /// <summary>True when the result was taken from the results database instead of being fitted now.</summary>
     public bool FromStore { get; init; }
+
+    /// <summary>The fit plot, rendered on the worker thread; null when none was asked for.</summary>
+    public byte[]? PlotPng { get; init; }
 }
 
 /// <summary>
