@@ -18,6 +18,10 @@ public static class CliApp
         root.Subcommands.Add(FitCommand.Create(context));
         root.Subcommands.Add(SimulateCommand.Create(context));
         root.Subcommands.Add(DemoCommand.Create(context));
+        root.Subcommands.Add(InspectCommand.Create(context));
+        root.Subcommands.Add(BatchCommand.Create(context));
+        root.Subcommands.Add(DriftCommand.Create(context));
+        root.Subcommands.Add(ThicknessCommand.Create(context));
         var parse = root.Parse(args);
         if (parse.Errors.Count > 0)
         {

@@ -13,8 +13,24 @@ internal sealed class FitOptionSet
 {
     public Option<string> Model { get; } = new("--model")
     {
-        Description = "barrier model: " + string.Join(", ", ModelResolver.Names),
+        Description = "barrier model: " + string.Join(", ", ModelResolver.Names) + ", or auto (fit " +
+                      string.Join(", ", FitPlan.AutoCandidates) + " and choose by AICc)",
         DefaultValueFactory = _ => "simmons",
+    };
+
+    public Option<double?> Temperature { get; } = new("--temperature")
+    {
+        Description = "sample temperature in K for the thermal factor (default: each file's stated temperature, else none)",
+    };
+
+    public Option<bool> IgnoreFileTemperature { get; } = new("--ignore-file-temperature")
+    {
+        Description = "do not apply the temperature stated in the files (zero-temperature forms unless --temperature)",
+    };
+
+    public Option<double?> Permittivity { get; } = new("--permittivity")
+    {
+        Description = "relative permittivity of the barrier for image-force models (default 3.9)",
     };
 
     public Option<string?> Area { get; } = new("--area")
@@ -61,6 +77,9 @@ internal sealed class FitOptionSet
 
     public void AddTo(Command command)
     {
+        command.Options.Add(Temperature);
+        command.Options.Add(IgnoreFileTemperature);
+        command.Options.Add(Permittivity);
         command.Options.Add(AreaFromFile);
         command.Options.Add(Model);
         command.Options.Add(Area);
@@ -72,31 +91,73 @@ internal sealed class FitOptionSet
         command.Options.Add(Compliance);
     }
 
-    /// <summary>Builds the model and fit options from the parsed values.</summary>
-    public (JunctionCurrentModel Model, FitOptions Options, string Summary) Build(ParseResult parse)
+    /// <summary>Parasitic parameters that <c>--free</c> or <c>--fix</c> switch on by naming them.</summary>
+    internal static readonly (ParameterDefinition Def, Func<ParasiticOptions, ParasiticOptions> Enable)[] ParasiticSwitches =
+    [
+        (StandardParameters.SeriesResistance, o => o with { SeriesResistance = true }),
+        (StandardParameters.LeakageConductance, o => o with { LeakageConductance = true }),
+        (StandardParameters.VoltageOffset, o => o with { VoltageOffset = true }),
+        (StandardParameters.CurrentOffset, o => o with { CurrentOffset = true }),
+    ];
+
+    /// <summary>Builds the fit plan from the parsed values.</summary>
+    public (FitPlan Plan, string Summary) Build(ParseResult parse)
     {
-        var barrier = ModelResolver.Resolve(parse.GetValue(Model) ?? "simmons");
-        var model = new JunctionCurrentModel(barrier);
+        string modelText = (parse.GetValue(Model) ?? "simmons").Trim();
+        IReadOnlyList<string> names = string.Equals(modelText, "auto", StringComparison.OrdinalIgnoreCase)
+            ? FitPlan.AutoCandidates
+            : [ResolveName(modelText)];
+        double? temperature = parse.GetValue(Temperature);
+        if (temperature is double t && (!(t >= 0) || !double.IsFinite(t))) throw new UsageException($"--temperature: {t} must be zero or a positive number of kelvin");
+        double? permittivity = parse.GetValue(Permittivity);
+        if (permittivity is double er && (!(er >= 1) || !double.IsFinite(er))) throw new UsageException($"--permittivity: {er} must be at least 1");
+        var modelOptions = BarrierModelOptions.Default with { TemperatureK = temperature };
+        if (permittivity is double eps) modelOptions = modelOptions with { RelativePermittivity = eps };
+
+        // Parasitic elements are switched on by naming them in --free or --fix.
+        string[] freeNames = parse.GetValue(Free) ?? [];
+        string[] fixItems = parse.GetValue(Fix) ?? [];
+        var parasitics = ParasiticOptions.None;
+        foreach (string name in freeNames.Concat(fixItems.Select(f => f.Split('=')[0].Trim())))
+        {
+            foreach (var (def, enable) in ParasiticSwitches)
+            {
+                if (string.Equals(name, def.Key, StringComparison.OrdinalIgnoreCase) ||
+                    string.Equals(name, ParameterNames.CliName(def), StringComparison.OrdinalIgnoreCase))
+                {
+                    parasitics = enable(parasitics);
+                }
+            }
+        }
+
         var fixedValues = ImmutableDictionary.CreateBuilder<string, double>();
         var freed = ImmutableHashSet.CreateBuilder<string>();
+        var starts = ImmutableDictionary.CreateBuilder<string, double>();
         double massRatio = parse.GetValue(MassRatio);
         if (!(massRatio > 0) || !double.IsFinite(massRatio)) throw new UsageException($"--mass-ratio: {massRatio} must be a positive number");
-        var summary = new List<string> { $"model {barrier.Name}" };
+        var summary = new List<string> { names.Count == 1 ? $"model {names[0]}" : $"model auto ({string.Join(", ", names)}, by AICc)" };
+        var models = names.Select(n => new JunctionCurrentModel(BarrierModelCatalog.Create(n, modelOptions), parasitics)).ToArray();
 
-        foreach (string name in parse.GetValue(Free) ?? [])
+        ParameterDefinition FindInAny(string name, string option)
         {
-            var def = ParameterNames.Find(model, name, "--free");
+            UsageException? first = null;
+            foreach (var m in models)
+            {
+                try { return ParameterNames.Find(m, name, option); }
+                catch (UsageException e) { first ??= e; }
+            }
+            throw first!;
+        }
+
+        foreach (string name in freeNames)
+        {
+            var def = FindInAny(name, "--free");
             freed.Add(def.Key);
             summary.Add($"free {ParameterNames.CliName(def)}");
         }
-        var massDef = model.Parameters.FirstOrDefault(d => d.Key == StandardParameters.MassRatio.Key);
-        var starts = ImmutableDictionary.CreateBuilder<string, double>();
-        if (massDef is not null)
-        {
-            if (freed.Contains(massDef.Key)) starts[massDef.Key] = massRatio;
-            else fixedValues[massDef.Key] = massRatio;
-            summary.Add(freed.Contains(massDef.Key) ? $"mass ratio free (start {massRatio})" : $"mass ratio fixed at {massRatio}");
-        }
+        if (freed.Contains(StandardParameters.MassRatio.Key)) starts[StandardParameters.MassRatio.Key] = massRatio;
+        else fixedValues[StandardParameters.MassRatio.Key] = massRatio;
+        summary.Add(freed.Contains(StandardParameters.MassRatio.Key) ? $"mass ratio free (start {massRatio})" : $"mass ratio fixed at {massRatio}");
         if (parse.GetValue(Area) is string areaText)
         {
             double area = QuantityParser.ParseAreaM2(areaText);
@@ -111,11 +172,11 @@ internal sealed class FitOptionSet
         {
             summary.Add("area free");
         }
-        foreach (string item in parse.GetValue(Fix) ?? [])
+        foreach (string item in fixItems)
         {
             int eq = item.IndexOf('=', StringComparison.Ordinal);
             if (eq <= 0 || eq == item.Length - 1) throw new UsageException($"--fix: '{item}' must be NAME=VALUE, for example thickness=1.6");
-            var def = ParameterNames.Find(model, item[..eq].Trim(), "--fix");
+            var def = FindInAny(item[..eq].Trim(), "--fix");
             fixedValues[def.Key] = ParameterNames.ParseValueSi(def, item[(eq + 1)..].Trim(), "--fix");
             freed.Remove(def.Key);
             summary.Add($"{ParameterNames.CliName(def)} fixed at {item[(eq + 1)..].Trim()} {def.DisplayUnit}".TrimEnd());
@@ -128,6 +189,8 @@ internal sealed class FitOptionSet
         if (compliance is double c && (!(c > 0) || !double.IsFinite(c))) throw new UsageException($"--compliance: {c} must be a positive number");
         if (noise is not null) summary.Add($"relative noise {noise}");
         if (floor is not null) summary.Add($"noise floor {floor} A");
+        bool fileTemperature = !parse.GetValue(IgnoreFileTemperature);
+        summary.Add(temperature is double tk ? $"temperature {tk} K" : fileTemperature ? "temperature from each file where stated" : "zero-temperature forms");
 
         var options = new FitOptions
         {
@@ -139,7 +202,16 @@ internal sealed class FitOptionSet
             ComplianceA = compliance,
             FixAreaFromMetadata = parse.GetValue(AreaFromFile) && parse.GetValue(Area) is null,
         };
-        return (model, options, string.Join("; ", summary));
+        return (new FitPlan(names, modelOptions, parasitics, options, fileTemperature), string.Join("; ", summary));
+    }
+
+    private static string ResolveName(string name)
+    {
+        foreach (string known in ModelResolver.Names)
+        {
+            if (string.Equals(known, name, StringComparison.OrdinalIgnoreCase)) return known;
+        }
+        throw new UsageException($"--model: unknown model '{name}'; choose one of: {string.Join(", ", ModelResolver.Names)}, auto");
     }
 }
 
@@ -163,12 +235,14 @@ internal static class FitCommand
         command.Options.Add(json);
         command.Options.Add(outDir);
         command.Options.Add(jobs);
+        var read = new ReadOptionSet();
+        read.AddTo(command);
         command.SetAction(parse =>
         {
-            var (model, options, summary) = fitOptions.Build(parse);
+            var (plan, summary) = fitOptions.Build(parse);
             int jobCount = parse.GetValue(jobs) ?? Environment.ProcessorCount;
             if (jobCount < 1) throw new UsageException($"--jobs: {jobCount} must be at least 1");
-            var run = new FitRun(context, model, options, summary, parse.GetValue(json), parse.GetValue(outDir), null, jobCount);
+            var run = new FitRun(context, plan, read.Build(parse), summary, parse.GetValue(json), parse.GetValue(outDir), null, jobCount);
             return run.Execute(parse.GetValue(paths) ?? []);
         });
         return command;

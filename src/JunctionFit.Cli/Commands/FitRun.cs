@@ -11,11 +11,9 @@ namespace JunctionFit.Cli.Commands;
 /// small ordered chunks, so results appear in a deterministic order and memory does not grow with the file count
 /// (curves are dropped once their plot is written).
 /// </summary>
-internal sealed class FitRun(CliContext context, JunctionCurrentModel model, FitOptions options, string optionSummary,
+internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions readOptions, string optionSummary,
     bool json, string? outDir, string? plotSubfolder, int jobs)
 {
-    private const int ChunkSize = 64;
-
     public int Execute(IReadOnlyList<string> paths)
     {
         var (files, missing) = InputFiles.Expand(paths);
@@ -24,7 +22,7 @@ internal sealed class FitRun(CliContext context, JunctionCurrentModel model, Fit
         {
             context.Error.WriteLine($"{m}:0: no such file or folder");
             unreadable++;
-            if (json) context.Out.WriteLine(FitJsonFormatter.Format(FitResult.Failed(m, model.Barrier.Name, "no such file or folder")));
+            if (json) context.Out.WriteLine(FitJsonFormatter.Format(FitResult.Failed(m, plan.DisplayName, "no such file or folder")));
         }
         if (files.Count == 0 && missing.Count == 0)
         {
@@ -37,45 +35,52 @@ internal sealed class FitRun(CliContext context, JunctionCurrentModel model, Fit
         var summaries = new List<FitResult>(files.Count);
         var plotFiles = new List<string?>(files.Count);
         int fitted = 0, notOk = 0;
-        var outcomes = new Outcome[Math.Min(ChunkSize, Math.Max(files.Count, 1))];
-        var parallel = new ParallelOptions { MaxDegreeOfParallelism = jobs };
         var usedPlotNames = new HashSet<string>(StringComparer.Ordinal);
-        for (int start = 0; start < files.Count; start += ChunkSize)
+        CurvePipeline.Run(files, readOptions, plan, jobs, (_, outcome) =>
         {
-            int count = Math.Min(ChunkSize, files.Count - start);
-            Parallel.For(0, count, parallel, k => outcomes[k] = Process(files[start + k]));
-            for (int k = 0; k < count; k++)
+            if (outcome.ReadError is not null)
             {
-                var outcome = outcomes[k];
-                if (outcome.ReadError is not null)
+                context.Error.WriteLine(outcome.ReadError);
+                unreadable++;
+            }
+            else
+            {
+                fitted++;
+            }
+            var result = outcome.Result;
+            if (result.Status != FitStatus.Ok) notOk++;
+            if (result.Status == FitStatus.Failed && outcome.ReadError is null)
+            {
+                context.Error.WriteLine($"{result.SourcePath}:0: fit failed: {result.Error}");
+            }
+            if (json) context.Out.WriteLine(FitJsonFormatter.Format(result));
+            string? plot = null;
+            if (plotDir is not null && result.Curve is not null)
+            {
+                plot = Path.Combine(plotDir, UniquePlotName(result.SourcePath, usedPlotNames));
+                FitPlotRenderer.WritePng(result, plot);
+            }
+            summaries.Add(result with { Curve = null });
+            plotFiles.Add(plot);
+        });
+        FailedCount = summaries.Count(r => r.Status == FitStatus.Failed);
+
+        if (!json)
+        {
+            context.Out.Write(SummaryTableWriter.FormatConsoleTable(summaries));
+            foreach (var r in summaries)
+            {
+                if (r.ModelComparison.Length == 0) continue;
+                context.Out.WriteLine();
+                context.Out.WriteLine($"model selection for {r.SourcePath} (AICc, lower is better; ok fits preferred):");
+                context.Out.WriteLine($"  {"model",-16} {"status",-9} {"k",2} {"points",6} {"AICc",12}");
+                foreach (var row in r.ModelComparison)
                 {
-                    context.Error.WriteLine(outcome.ReadError);
-                    unreadable++;
+                    string aicc = row.Aicc is double a ? a.ToString("0.00", System.Globalization.CultureInfo.InvariantCulture) : "-";
+                    context.Out.WriteLine($"  {row.Model,-16} {FitJsonFormatter.StatusText(row.Status),-9} {row.FreeParameters,2} {row.PointsUsed,6} {aicc,12}{(row.Chosen ? "  <- chosen" : "")}");
                 }
-                else
-                {
-                    fitted++;
-                }
-                var result = outcome.Result;
-                if (result.Status != FitStatus.Ok) notOk++;
-                if (result.Status == FitStatus.Failed && outcome.ReadError is null)
-                {
-                    context.Error.WriteLine($"{result.SourcePath}:0: fit failed: {result.Error}");
-                }
-                if (json) context.Out.WriteLine(FitJsonFormatter.Format(result));
-                string? plot = null;
-                if (plotDir is not null && result.Curve is not null)
-                {
-                    plot = Path.Combine(plotDir, UniquePlotName(result.SourcePath, usedPlotNames));
-                    FitPlotRenderer.WritePng(result, plot);
-                }
-                summaries.Add(result with { Curve = null });
-                plotFiles.Add(plot);
-                outcomes[k] = default;
             }
         }
-
-        if (!json) context.Out.Write(SummaryTableWriter.FormatConsoleTable(summaries));
         if (outDir is not null)
         {
             string csv = Path.Combine(outDir, "summary.csv");
@@ -83,36 +88,21 @@ internal sealed class FitRun(CliContext context, JunctionCurrentModel model, Fit
             SummaryTableWriter.WriteCsv(csv, summaries);
             var entries = new List<HtmlReportEntry>(summaries.Count);
             for (int k = 0; k < summaries.Count; k++) entries.Add(new HtmlReportEntry(summaries[k]) { PlotPath = plotFiles[k] });
-            HtmlReportWriter.Write(html, new HtmlRunInfo(VersionInfo.Text, DateTimeOffset.Now, model.Barrier.Name, optionSummary), entries);
+            HtmlReportWriter.Write(html, new HtmlRunInfo(VersionInfo.Text, DateTimeOffset.Now, plan.DisplayName, optionSummary), entries);
             context.Error.WriteLine($"junctionfit: wrote {plotFiles.Count(p => p is not null)} plot(s), {csv} and {html}");
         }
         if (fitted == 0) return ExitCodes.UsageOrInput;
         return notOk == 0 && unreadable == 0 ? ExitCodes.Success : ExitCodes.SomeFailed;
     }
 
-    private Outcome Process(string path)
-    {
-        IvCurve curve;
-        try
-        {
-            curve = IvFileReader.ReadFile(path);
-        }
-        catch (IvFormatException e)
-        {
-            return new Outcome(FitResult.Failed(path, model.Barrier.Name, e.Reason), e.Message);
-        }
-        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
-        {
-            return new Outcome(FitResult.Failed(path, model.Barrier.Name, e.Message), $"{path}:0: cannot read: {e.Message}");
-        }
-        return new Outcome(JunctionFitter.Fit(curve, model, options), null);
-    }
+    /// <summary>Number of results with status failed in the last run.</summary>
+    public int FailedCount { get; private set; }
 
     /// <summary>
     /// A plot file name from the input path relative to the working directory, folders joined by '_'
     /// (lot/wafer/die_3_4.csv → lot_wafer_die_3_4.png), made unique within the run.
     /// </summary>
-    private static string UniquePlotName(string sourcePath, HashSet<string> used)
+    internal static string UniquePlotName(string sourcePath, HashSet<string> used)
     {
         string relative = Path.GetRelativePath(Directory.GetCurrentDirectory(), sourcePath);
         if (relative.StartsWith("..", StringComparison.Ordinal) || Path.IsPathRooted(relative)) relative = Path.GetFileName(sourcePath);
@@ -125,5 +115,4 @@ internal sealed class FitRun(CliContext context, JunctionCurrentModel model, Fit
         return name;
     }
 
-    private readonly record struct Outcome(FitResult Result, string? ReadError);
 }

@@ -23,18 +23,42 @@ internal static class SimulateCommand
         var noise = new Option<double>("--noise") { Description = "relative Gaussian current noise r (σ = r·|I|); default 0 (noise-free)", DefaultValueFactory = _ => 0.0 };
         var noiseFloor = new Option<double>("--noise-floor") { Description = "absolute Gaussian current noise in A; default 0", DefaultValueFactory = _ => 0.0 };
         var seed = new Option<int>("--seed") { Description = "seed of the noise generator", DefaultValueFactory = _ => 1 };
+        var temperature = new Option<double?>("--temperature") { Description = "sample temperature in K: applies the thermal factor (default: none, the zero-temperature form)" };
+        var permittivity = new Option<double?>("--permittivity") { Description = "relative permittivity for image-force models (default 3.9)" };
+        var shape = new Option<string>("--sweep") { Description = "sweep shape: linear (from → to), positive (0 → |to|), loop (0 → +V → −V → 0 with V = max(|from|, |to|))", DefaultValueFactory = _ => "linear" };
         var header = new Option<string[]>("--header") { Description = "write a '# key: value' line before the table (for example lot=HX-101); repeatable" };
 
         var command = new Command("simulate", "Write a simulated I–V sweep (CSV: Voltage (V),Current (A)) to standard output.");
-        foreach (var o in new Option[] { model, barrierHeight, thickness, area, asymmetry, massRatio, set, from, to, points, noise, noiseFloor, seed, header })
+        foreach (var o in new Option[] { model, barrierHeight, thickness, area, asymmetry, massRatio, set, from, to, points, noise, noiseFloor, seed, header, temperature, permittivity, shape })
         {
             command.Options.Add(o);
         }
         command.SetAction(parse =>
         {
-            var junction = new JunctionCurrentModel(ModelResolver.Resolve(parse.GetValue(model) ?? "simmons"));
+            double? t = parse.GetValue(temperature);
+            if (t is double tk && (!(tk >= 0) || !double.IsFinite(tk))) throw new UsageException($"--temperature: {tk} must be zero or positive");
+            double? er = parse.GetValue(permittivity);
+            if (er is double e && (!(e >= 1) || !double.IsFinite(e))) throw new UsageException($"--permittivity: {e} must be at least 1");
+            var modelOptions = BarrierModelOptions.Default with { TemperatureK = t };
+            if (er is double eps) modelOptions = modelOptions with { RelativePermittivity = eps };
+            var parasitics = ParasiticOptions.None;
+            foreach (string item in parse.GetValue(set) ?? [])
+            {
+                string name = item.Split('=')[0].Trim();
+                foreach (var (def, enable) in FitOptionSet.ParasiticSwitches)
+                {
+                    if (string.Equals(name, def.Key, StringComparison.OrdinalIgnoreCase) ||
+                        string.Equals(name, ParameterNames.CliName(def), StringComparison.OrdinalIgnoreCase)) parasitics = enable(parasitics);
+                }
+            }
+            var junction = new JunctionCurrentModel(ModelResolver.Resolve(parse.GetValue(model) ?? "simmons", modelOptions), parasitics);
             var theta = new double[junction.Parameters.Count];
             for (int k = 0; k < theta.Length; k++) theta[k] = junction.Parameters[k].DefaultSi;
+            // Parasitic elements named with --set start from "absent", not from their fit start values.
+            foreach (int? idx in new[] { junction.SeriesResistanceIndex, junction.LeakageConductanceIndex, junction.VoltageOffsetIndex, junction.CurrentOffsetIndex })
+            {
+                if (idx is int k) theta[k] = 0.0;
+            }
             void Set(string name, double si, string option)
             {
                 int k = junction.IndexOf(ParameterNames.Find(junction, name, option).Key);
@@ -67,6 +91,13 @@ internal static class SimulateCommand
                 RelativeNoise = r,
                 NoiseFloorA = floor,
                 Seed = parse.GetValue(seed),
+                Shape = (parse.GetValue(shape) ?? "linear").ToLowerInvariant() switch
+                {
+                    "linear" => SweepShape.Linear,
+                    "positive" => SweepShape.PositiveOnly,
+                    "loop" => SweepShape.Loop,
+                    var other => throw new UsageException($"--sweep: unknown shape '{other}'; choose linear, positive or loop"),
+                },
             };
             var (v, i) = IvSimulator.Simulate(junction, theta, spec);
             var text = new StringBuilder(64 * n);

@@ -358,7 +358,8 @@ public static class JunctionFitter
             warnings.Add($"the residual scatter is {Math.Sqrt(reducedChi2.Value):0.#} times the point-to-point noise of the data: the model misses " +
                          "structure in the curve, or the noise is not proportional to the current (give --noise and --noise-floor)");
         }
-        foreach (var w in model.Barrier.CheckValidity(maxAbsV, thetaHat.AsSpan(0, model.AreaIndex))) warnings.Add(w);
+        foreach (var w in model.CheckValidity(maxAbsV, thetaHat)) warnings.Add(w);
+        var transition = TransitionVoltage.Compute(curve.VoltageV.AsSpan(), curve.CurrentA.AsSpan());
 
         return new FitResult
         {
@@ -373,6 +374,8 @@ public static class JunctionFitter
             CorrelationRowMajor = corr.ToImmutable(),
             Curve = new CurveSnapshot(curve.VoltageV, curve.CurrentA, ImmutableArray.Create(modelCurrent),
                 ImmutableArray.Create(used), ImmutableArray.Create(logResidual)),
+            TransitionVoltageV = transition.PositiveV,
+            TransitionVoltageNegativeV = transition.NegativeV,
             Lot = curve.Lot,
             Wafer = curve.Wafer,
             DieX = curve.DieX,

@@ -94,6 +94,24 @@ public static class FitJsonFormatter
         w.WriteEndObject();
 
         WriteNumberOrNull(w, "transition_voltage_V", result.TransitionVoltageV);
+        WriteNumberOrNull(w, "transition_voltage_negative_V", result.TransitionVoltageNegativeV);
+        if (result.ModelComparison.Length > 0)
+        {
+            w.WriteStartArray("model_selection");
+            foreach (var row in result.ModelComparison)
+            {
+                w.WriteStartObject();
+                w.WriteString("model", row.Model);
+                w.WriteString("status", StatusText(row.Status));
+                w.WriteNumber("free_parameters", row.FreeParameters);
+                w.WriteNumber("points_used", row.PointsUsed);
+                WriteNumberOrNull(w, "rss", row.ResidualSumOfSquares);
+                WriteNumberOrNull(w, "aicc", row.Aicc);
+                w.WriteBoolean("chosen", row.Chosen);
+                w.WriteEndObject();
+            }
+            w.WriteEndArray();
+        }
         WriteStringOrNull(w, "lot", result.Lot);
         WriteStringOrNull(w, "wafer", result.Wafer);
         if (result.DieX is int x) w.WriteNumber("die_x", x); else w.WriteNull("die_x");

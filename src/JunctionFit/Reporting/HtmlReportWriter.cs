@@ -14,6 +14,42 @@ public sealed record HtmlRunInfo(string ToolVersion, DateTimeOffset Time, string
 {
     /// <summary>Page title and main heading.</summary>
     public string Title { get; init; } = "JunctionFit fit report";
+
+    /// <summary>Sections shown after the header and before the per-die summary (lot summary, wafer maps, drift …).</summary>
+    public IReadOnlyList<HtmlReportSection> Sections { get; init; } = [];
+
+    /// <summary>A note under the summary table (for example how many fits have no section of their own).</summary>
+    public string? SummaryNote { get; init; }
+}
+
+/// <summary>A table for an extra report section. Every cell is shown as text (HTML-escaped); the table sorts on click.</summary>
+/// <param name="Caption">Caption above the table.</param>
+/// <param name="Header">Column headings.</param>
+/// <param name="Rows">Cells, one array per row; a cell that parses as a number sorts numerically.</param>
+public sealed record HtmlTable(string Caption, IReadOnlyList<string> Header, IReadOnlyList<IReadOnlyList<string>> Rows)
+{
+    /// <summary>Row indices to highlight (for example flagged lots).</summary>
+    public IReadOnlySet<int> Highlight { get; init; } = new HashSet<int>();
+}
+
+/// <summary>An embedded image for an extra report section.</summary>
+/// <param name="Caption">Caption (text).</param>
+/// <param name="Png">PNG bytes.</param>
+public sealed record HtmlImage(string Caption, ReadOnlyMemory<byte> Png);
+
+/// <summary>An extra section: heading, paragraphs, tables and images, all escaped.</summary>
+/// <param name="Id">Anchor id (letters, digits and '-').</param>
+/// <param name="Title">Heading.</param>
+public sealed record HtmlReportSection(string Id, string Title)
+{
+    /// <summary>Paragraphs of text.</summary>
+    public IReadOnlyList<string> Paragraphs { get; init; } = [];
+
+    /// <summary>Tables.</summary>
+    public IReadOnlyList<HtmlTable> Tables { get; init; } = [];
+
+    /// <summary>Images, shown in a grid.</summary>
+    public IReadOnlyList<HtmlImage> Images { get; init; } = [];
 }
 
 /// <summary>One result of the report with its plot, if any.</summary>
@@ -25,6 +61,9 @@ public sealed record HtmlReportEntry(FitResult Result)
 
     /// <summary>Path of a PNG file to embed when <see cref="PlotPng"/> is empty; null for none.</summary>
     public string? PlotPath { get; init; }
+
+    /// <summary>False to list the fit in the summary only, without a section of its own (large batches).</summary>
+    public bool ShowSection { get; init; } = true;
 
     /// <summary>An entry whose plot is rendered now with <see cref="FitPlotRenderer"/>.</summary>
     /// <param name="result">The fit.</param>
@@ -84,8 +123,13 @@ public static class HtmlReportWriter
           .Append("<style>\n").Append(Css).Append("</style>\n</head>\n<body>\n");
 
         AppendHeader(sb, run, entries);
+        foreach (var section in run.Sections) AppendExtraSection(sb, section);
         AppendSummary(sb, entries);
-        for (int i = 0; i < entries.Count; i++) AppendSection(sb, entries[i], i + 1);
+        if (run.SummaryNote is not null) sb.Append("<p class=\"hint\">").Append(E(run.SummaryNote)).Append("</p>\n");
+        for (int i = 0; i < entries.Count; i++)
+        {
+            if (entries[i].ShowSection) AppendSection(sb, entries[i], i + 1);
+        }
 
         sb.Append("<footer>").Append(E(run.Title)).Append(" · ").Append(E(run.ToolVersion)).Append("</footer>\n");
         sb.Append("<script>\n").Append(SortScript).Append("</script>\n</body>\n</html>\n");
@@ -149,7 +193,14 @@ public static class HtmlReportWriter
             var r = entries[i].Result;
             string status = FitPlotRenderer.StatusText(r.Status);
             sb.Append("<tr>");
-            sb.Append("<td class=\"file\"><a href=\"#fit-").Append((i + 1).ToString(Inv)).Append("\">").Append(E(r.SourcePath)).Append("</a></td>");
+            if (entries[i].ShowSection)
+            {
+                sb.Append("<td class=\"file\"><a href=\"#fit-").Append((i + 1).ToString(Inv)).Append("\">").Append(E(r.SourcePath)).Append("</a></td>");
+            }
+            else
+            {
+                sb.Append("<td class=\"file\">").Append(E(r.SourcePath)).Append("</td>");
+            }
             sb.Append("<td>").Append(E(r.Lot ?? "")).Append("</td>");
             sb.Append("<td>").Append(E(r.Wafer ?? "")).Append("</td>");
             sb.Append("<td data-sort=\"").Append(DieSortKey(r)).Append("\">").Append(E(SummaryRow.DieText(r))).Append("</td>");
@@ -190,6 +241,41 @@ public static class HtmlReportWriter
     private static string SortNumber(double? x) => x is double v && double.IsFinite(v) ? v.ToString("R", Inv) : "";
 
     // ---- one fit ------------------------------------------------------------------------------
+
+    private static void AppendExtraSection(StringBuilder sb, HtmlReportSection section)
+    {
+        string id = new string(section.Id.Where(c => char.IsAsciiLetterOrDigit(c) || c == '-').ToArray());
+        sb.Append("<section class=\"extra\" id=\"").Append(id).Append("\">\n<h2>").Append(E(section.Title)).Append("</h2>\n");
+        foreach (string p in section.Paragraphs) sb.Append("<p>").Append(E(p)).Append("</p>\n");
+        foreach (var table in section.Tables)
+        {
+            sb.Append("<h3>").Append(E(table.Caption)).Append("</h3>\n<div class=\"scroll\"><table class=\"summary sortable\">\n<thead><tr>");
+            foreach (string h in table.Header) sb.Append("<th scope=\"col\" tabindex=\"0\">").Append(E(h)).Append("</th>");
+            sb.Append("</tr></thead>\n<tbody>\n");
+            for (int r = 0; r < table.Rows.Count; r++)
+            {
+                sb.Append(table.Highlight.Contains(r) ? "<tr class=\"flagged\">" : "<tr>");
+                foreach (string cell in table.Rows[r])
+                {
+                    bool numeric = double.TryParse(cell, NumberStyles.Float, Inv, out double v) && double.IsFinite(v);
+                    sb.Append(numeric ? "<td data-sort=\"" + v.ToString("R", Inv) + "\">" : "<td>").Append(E(cell)).Append("</td>");
+                }
+                sb.Append("</tr>\n");
+            }
+            sb.Append("</tbody>\n</table></div>\n");
+        }
+        if (section.Images.Count > 0)
+        {
+            sb.Append("<div class=\"gallery\">\n");
+            foreach (var image in section.Images)
+            {
+                sb.Append("<figure><img alt=\"").Append(E(image.Caption)).Append("\" src=\"data:image/png;base64,")
+                  .Append(Convert.ToBase64String(image.Png.Span)).Append("\"><figcaption>").Append(E(image.Caption)).Append("</figcaption></figure>\n");
+            }
+            sb.Append("</div>\n");
+        }
+        sb.Append("</section>\n");
+    }
 
     private static void AppendSection(StringBuilder sb, HtmlReportEntry entry, int number)
     {
@@ -347,6 +433,11 @@ public static class HtmlReportWriter
     private const string Css = """
         :root { --ink:#22262b; --muted:#5c636b; --rule:#d5dae0; --panel:#f4f6f9; --blue:#1f5a96; --amber:#b06a00; --red:#b02e2e; --green:#2e7d5b; }
         * { box-sizing: border-box; }
+        .gallery { display: flex; flex-wrap: wrap; gap: 12px; }
+        .gallery figure { margin: 0; max-width: 48%; }
+        .gallery img { max-width: 100%; border: 1px solid var(--rule); }
+        .gallery figcaption { color: var(--muted); font-size: 12px; }
+        tr.flagged td { background: #fdecec; font-weight: 600; }
         body { margin: 0 auto; max-width: 1180px; padding: 24px 28px 48px; color: var(--ink); background: #fff;
                font: 14px/1.45 system-ui, -apple-system, "Segoe UI", "DejaVu Sans", sans-serif; }
         h1 { font-size: 24px; margin: 0 0 12px; }
@@ -391,6 +482,12 @@ public static class HtmlReportWriter
 
     /// <summary>Sorts a table body by the clicked column: numbers from data-sort when present (empty last), otherwise text.</summary>
     private const string SortScript = """
+        window.addEventListener('load', function () {
+          var imgs = document.images, broken = 0;
+          for (var i = 0; i < imgs.length; i++) { if (!imgs[i].complete || imgs[i].naturalWidth === 0) broken++; }
+          document.documentElement.setAttribute('data-images', String(imgs.length));
+          document.documentElement.setAttribute('data-broken-images', String(broken));
+        });
         (function () {
           function key(cell) {
             var s = cell.getAttribute('data-sort');

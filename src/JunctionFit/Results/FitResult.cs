@@ -90,6 +90,12 @@ public sealed record FitResult
     /// <summary>Transition voltage (minimum of ln(I/V²) against 1/V) for positive bias, in volt, if found.</summary>
     public double? TransitionVoltageV { get; init; }
 
+    /// <summary>Transition voltage for negative bias (a negative number), in volt, if found.</summary>
+    public double? TransitionVoltageNegativeV { get; init; }
+
+    /// <summary>Model-selection table when several models were compared (<c>--model auto</c>); empty otherwise.</summary>
+    public ImmutableArray<ModelComparisonRow> ModelComparison { get; init; } = [];
+
     /// <summary>Lot, if known.</summary>
     public string? Lot { get; init; }
 
@@ -121,3 +127,13 @@ public sealed record FitResult
         Error = error,
     };
 }
+
+/// <summary>One candidate of a model comparison.</summary>
+/// <param name="Model">Model name.</param>
+/// <param name="Status">Outcome of that model's fit.</param>
+/// <param name="FreeParameters">Number of free parameters k.</param>
+/// <param name="PointsUsed">Points n.</param>
+/// <param name="ResidualSumOfSquares">Weighted RSS of that fit.</param>
+/// <param name="Aicc">Corrected Akaike information criterion (lower is better); null when not computable.</param>
+/// <param name="Chosen">True for the selected model.</param>
+public sealed record ModelComparisonRow(string Model, FitStatus Status, int FreeParameters, int PointsUsed, double? ResidualSumOfSquares, double? Aicc, bool Chosen);

@@ -69,7 +69,29 @@ public static class ResultsCsv
         var sb = new StringBuilder(256 * (rows.Count + 1));
         CsvText.WriteRecord(sb, Columns(keys));
         var fields = new List<string>(LeadingColumns.Length + 4 * keys.Length + TrailingColumns.Length);
-        foreach (var row in rows)
+        foreach (var row in rows) AppendRow(sb, row, keys, fields);
+        return sb.ToString();
+    }
+
+    /// <summary>The header line (with its line feed) for streaming output with fixed parameter keys.</summary>
+    public static string FormatHeader(IReadOnlyList<string> parameterKeys)
+    {
+        var sb = new StringBuilder(512);
+        CsvText.WriteRecord(sb, Columns(parameterKeys));
+        return sb.ToString();
+    }
+
+    /// <summary>One row (with its line feed) for streaming output; parameters missing from the row are empty cells.</summary>
+    public static string FormatRow(ResultRow row, IReadOnlyList<string> parameterKeys)
+    {
+        ArgumentNullException.ThrowIfNull(row);
+        var sb = new StringBuilder(512);
+        AppendRow(sb, row, parameterKeys, new List<string>(LeadingColumns.Length + 4 * parameterKeys.Count + TrailingColumns.Length));
+        return sb.ToString();
+    }
+
+    private static void AppendRow(StringBuilder sb, ResultRow row, IReadOnlyList<string> keys, List<string> fields)
+    {
         {
             fields.Clear();
             fields.Add(OneLine(row.File));
@@ -93,7 +115,6 @@ public static class ResultsCsv
             fields.Add(OneLine(row.Error ?? ""));
             CsvText.WriteRecord(sb, fields);
         }
-        return sb.ToString();
     }
 
     /// <summary>Writes the table to <paramref name="path"/> atomically (<see cref="AtomicFile"/>).</summary>

@@ -1,0 +1,283 @@
+using System.CommandLine;
+using System.Globalization;
+using System.Text;
+using JunctionFit.Common;
+using JunctionFit.Fitting;
+using JunctionFit.Import;
+using JunctionFit.Lots;
+using JunctionFit.Reporting;
+using JunctionFit.Results;
+using JunctionFit.Storage;
+
+namespace JunctionFit.Cli.Commands;
+
+/// <summary>
+/// <c>junctionfit batch DIR --out OUTDIR</c>: fit every I–V file under DIR and write results.csv (streamed in input
+/// order, renamed into place at the end), a fit plot per die, wafer maps, a per-lot summary and a self-contained report.
+/// </summary>
+internal static class BatchCommand
+{
+    /// <summary>Fits that get a section of their own in the report (failed and poor fits first).</summary>
+    public const int ReportSectionLimit = 40;
+
+    /// <summary>Parameters drawn as wafer maps.</summary>
+    public static readonly string[] MapKeys = ["barrier_height_eV", "thickness_nm", "area_m2"];
+
+    public static Command Create(CliContext context)
+    {
+        var dir = new Argument<string>("DIR") { Description = "folder with the I–V files of a lot (searched recursively)" };
+        var outDir = new Option<string>("--out") { Description = "output folder", Required = true };
+        var noPlots = new Option<bool>("--no-plots") { Description = "skip the per-die fit plots" };
+        var jobs = new Option<int?>("--jobs") { Description = "parallel fits (default: the number of cores)" };
+        var fitOptions = new FitOptionSet();
+        var read = new ReadOptionSet();
+        var command = new Command("batch", "Fit a whole lot: results.csv, fit plots, wafer maps, lot summary and report.html.");
+        command.Arguments.Add(dir);
+        command.Options.Add(outDir);
+        command.Options.Add(noPlots);
+        command.Options.Add(jobs);
+        fitOptions.AddTo(command);
+        read.AddTo(command);
+        command.SetAction(parse =>
+        {
+            var (plan, summary) = fitOptions.Build(parse);
+            int jobCount = parse.GetValue(jobs) ?? Environment.ProcessorCount;
+            if (jobCount < 1) throw new UsageException($"--jobs: {jobCount} must be at least 1");
+            var settings = new BatchSettings(parse.GetValue(dir)!, parse.GetValue(outDir)!, !parse.GetValue(noPlots), jobCount, read.Build(parse), plan, summary);
+            return Run(context, settings).ExitCode;
+        });
+        return command;
+    }
+
+    internal sealed record BatchSettings(string InputDir, string OutDir, bool Plots, int Jobs, IvReadOptions ReadOptions, FitPlan Plan, string Summary)
+    {
+        /// <summary>Builds further report sections from the batch's rows (the demo adds drift and thickness).</summary>
+        public Func<IReadOnlyList<ResultRow>, IReadOnlyList<HtmlReportSection>>? ExtraSections { get; init; }
+    }
+
+    internal sealed record BatchOutcome(int ExitCode, IReadOnlyList<ResultRow> Rows, string ResultsPath, string ReportPath);
+
+    internal static BatchOutcome Run(CliContext context, BatchSettings s)
+    {
+        if (!Directory.Exists(s.InputDir)) throw new UsageException($"batch: {s.InputDir}: no such folder");
+        var (files, _) = InputFiles.Expand([s.InputDir]);
+        if (files.Count == 0)
+        {
+            context.Error.WriteLine($"{s.InputDir}:0: no I–V files in this folder (looked for {string.Join(", ", InputFiles.Extensions)})");
+            return new BatchOutcome(ExitCodes.UsageOrInput, [], "", "");
+        }
+        Directory.CreateDirectory(s.OutDir);
+        string plotDir = Path.Combine(s.OutDir, "plots");
+        string mapDir = Path.Combine(s.OutDir, "maps");
+        if (s.Plots) Directory.CreateDirectory(plotDir);
+        Directory.CreateDirectory(mapDir);
+
+        var keys = ParameterKeys(s.Plan);
+        string resultsPath = Path.Combine(s.OutDir, ResultsCsv.FileName);
+        string partial = resultsPath + ".partial";
+        var rows = new List<ResultRow>(files.Count);
+        var reportCandidates = new List<(int Index, FitResult Result, string? Plot)>();
+        var plotNames = new HashSet<string>(StringComparer.Ordinal);
+        int unreadable = 0, notOk = 0, done = 0;
+        var progress = new Progress(context.Error, files.Count);
+        using (var writer = new StreamWriter(partial, false, AtomicFile.Utf8NoBom))
+        {
+            writer.Write(ResultsCsv.FormatHeader(keys));
+            CurvePipeline.Run(files, s.ReadOptions, s.Plan, s.Jobs, (index, outcome) =>
+            {
+                if (outcome.ReadError is not null)
+                {
+                    context.Error.WriteLine(outcome.ReadError);
+                    unreadable++;
+                }
+                var result = outcome.Result;
+                if (result.Status != FitStatus.Ok) notOk++;
+                string? plot = null;
+                if (s.Plots && result.Curve is not null)
+                {
+                    plot = Path.Combine(plotDir, FitRun.UniquePlotName(result.SourcePath, plotNames));
+                    FitPlotRenderer.WritePng(result, plot);
+                }
+                var row = ResultRow.FromFitResult(result);
+                writer.Write(ResultsCsv.FormatRow(row, keys));
+                rows.Add(row);
+                KeepForReport(reportCandidates, index, result with { Curve = null }, plot);
+                progress.Report(++done);
+            });
+            writer.Flush();
+            writer.BaseStream.Flush();
+        }
+        File.Move(partial, resultsPath, overwrite: true);
+        progress.Finish();
+
+        // Lot summary and wafer maps.
+        var lots = LotSummary.Compute(rows);
+        LotSummaryCsv.Write(Path.Combine(s.OutDir, LotSummaryCsv.FileName), lots);
+        var maps = new List<HtmlImage>();
+        foreach (var wafer in rows.Where(r => r.DieX is not null && r.DieY is not null)
+                     .GroupBy(r => (r.Lot ?? "", r.Wafer ?? "")).OrderBy(g => g.Key.Item1, StringComparer.Ordinal).ThenBy(g => g.Key.Item2, StringComparer.Ordinal))
+        {
+            var dies = wafer.ToList();
+            foreach (string key in MapKeys)
+            {
+                // A parameter held fixed on every die (the area with --area) has nothing to map.
+                if (!dies.Any(d => d.Find(key) is { StandardError: not null })) continue;
+                byte[] png = WaferMapRenderer.RenderPng(dies, key);
+                AtomicFile.WriteAllBytes(Path.Combine(mapDir, WaferMapRenderer.FileName(wafer.Key.Item1, wafer.Key.Item2, key)), png);
+                maps.Add(new HtmlImage($"lot {wafer.Key.Item1}, wafer {wafer.Key.Item2}: {key}", png));
+            }
+        }
+
+        // Report.
+        var (outliers, outlierSection) = LotAnalyses.Outliers(rows);
+        foreach (var o in outliers)
+        {
+            context.Error.WriteLine($"{o.Row.File}:0: out of family in lot {o.Row.Lot}: {o.Key} = {LotAnalyses.Num(o.Value)} against the lot median {LotAnalyses.Num(o.Median)} (robust z {o.Z:0.0})");
+        }
+        var sections = new List<HtmlReportSection> { LotSummarySection(lots), outlierSection };
+        if (maps.Count > 0)
+        {
+            sections.Add(new HtmlReportSection("wafer-maps", "Wafer maps")
+            {
+                Paragraphs = ["Dies on their grid, coloured by the fitted value (good fits only); a cross marks a failed die, an outline a poor fit."],
+                Images = maps,
+            });
+        }
+        if (s.ExtraSections is not null) sections.InsertRange(0, s.ExtraSections(rows));
+        var shown = new HashSet<int>(reportCandidates.Select(c => c.Index));
+        var entries = new List<HtmlReportEntry>(rows.Count);
+        var byIndex = reportCandidates.ToDictionary(c => c.Index);
+        for (int i = 0; i < rows.Count; i++)
+        {
+            if (byIndex.TryGetValue(i, out var c))
+            {
+                entries.Add(new HtmlReportEntry(c.Result) { PlotPath = c.Plot, ShowSection = true });
+            }
+            else
+            {
+                entries.Add(new HtmlReportEntry(RowAsResult(rows[i])) { ShowSection = false });
+            }
+        }
+        string reportPath = Path.Combine(s.OutDir, "report.html");
+        var run = new HtmlRunInfo(VersionInfo.Text, DateTimeOffset.Now, s.Plan.DisplayName, $"batch {s.InputDir}; {s.Summary}")
+        {
+            Title = "JunctionFit lot report",
+            Sections = sections,
+            SummaryNote = rows.Count > shown.Count
+                ? $"{shown.Count} of {rows.Count} fits have a section of their own below (failed and poor fits first); every fit is in {ResultsCsv.FileName}" +
+                  (s.Plots ? " and has its plot in plots/." : ".")
+                : null,
+        };
+        HtmlReportWriter.Write(reportPath, run, entries);
+
+        context.Error.WriteLine($"junctionfit batch: {rows.Count} files, {rows.Count(r => r.Status == FitStatus.Ok)} ok, " +
+                                $"{rows.Count(r => r.Status == FitStatus.PoorFit)} poor fits, {rows.Count(r => r.Status == FitStatus.Failed)} failed");
+        context.Error.WriteLine($"junctionfit batch: results {resultsPath}");
+        context.Error.WriteLine($"junctionfit batch: report  {reportPath}");
+        int code = unreadable == files.Count ? ExitCodes.UsageOrInput : notOk == 0 ? ExitCodes.Success : ExitCodes.SomeFailed;
+        return new BatchOutcome(code, rows, resultsPath, reportPath);
+    }
+
+    /// <summary>Keys of every parameter any model of the plan can report, in the standard order.</summary>
+    internal static List<string> ParameterKeys(FitPlan plan)
+    {
+        var keys = new List<string>(ResultRow.StandardKeys);
+        foreach (string name in plan.ModelNames)
+        {
+            var model = new Physics.JunctionCurrentModel(Physics.BarrierModelCatalog.Create(name, plan.ModelOptions), plan.Parasitics);
+            foreach (var def in model.Parameters) if (!keys.Contains(def.Key)) keys.Add(def.Key);
+        }
+        return keys;
+    }
+
+    private static void KeepForReport(List<(int Index, FitResult Result, string? Plot)> kept, int index, FitResult result, string? plot)
+    {
+        static int Rank(FitStatus s) => s switch { FitStatus.Failed => 0, FitStatus.PoorFit => 1, _ => 2 };
+        if (kept.Count < ReportSectionLimit)
+        {
+            kept.Add((index, result, plot));
+            return;
+        }
+        int worst = 0;
+        for (int i = 1; i < kept.Count; i++)
+        {
+            if (Rank(kept[i].Result.Status) > Rank(kept[worst].Result.Status) ||
+                (Rank(kept[i].Result.Status) == Rank(kept[worst].Result.Status) && kept[i].Index > kept[worst].Index)) worst = i;
+        }
+        if (Rank(result.Status) < Rank(kept[worst].Result.Status)) kept[worst] = (index, result, plot);
+    }
+
+    private static FitResult RowAsResult(ResultRow row) => new()
+    {
+        SourcePath = row.File,
+        Model = row.Model,
+        Status = row.Status,
+        Error = row.Error,
+        Warnings = row.Warnings,
+        Parameters = [.. row.Parameters.Select(p => new ParameterEstimate(p.Key, p.Key, "", p.Value ?? double.NaN, p.StandardError, p.Lower95, p.Upper95, p.StandardError is null))],
+        TransitionVoltageV = row.TransitionVoltageV,
+        Lot = row.Lot,
+        Wafer = row.Wafer,
+        DieX = row.DieX,
+        DieY = row.DieY,
+        Quality = row.ReducedChiSquare is double chi ? new FitQuality(0, 0, 0, double.NaN, chi, row.Status != FitStatus.Failed, "", "", "") : null,
+    };
+
+    internal static HtmlReportSection LotSummarySection(IReadOnlyList<LotSummaryRow> lots)
+    {
+        var header = new List<string> { "Lot", "Dies", "Ok", "Poor fit", "Failed", "Yield" };
+        string[] keys = ["barrier_height_eV", "thickness_nm", "area_m2", "transition_voltage_V"];
+        foreach (string k in keys) { header.Add(k + " median"); header.Add(k + " robust spread"); }
+        var table = new List<IReadOnlyList<string>>();
+        foreach (var lot in lots)
+        {
+            var cells = new List<string>
+            {
+                lot.Lot, lot.Total.ToString(CultureInfo.InvariantCulture), lot.Ok.ToString(CultureInfo.InvariantCulture),
+                lot.PoorFit.ToString(CultureInfo.InvariantCulture), lot.Failed.ToString(CultureInfo.InvariantCulture),
+                lot.Yield.ToString("P1", CultureInfo.InvariantCulture),
+            };
+            foreach (string k in keys)
+            {
+                var p = lot.Find(k);
+                cells.Add(p?.Median is double m ? m.ToString("G5", CultureInfo.InvariantCulture) : "");
+                cells.Add(p?.RobustSpread is double r ? r.ToString("G3", CultureInfo.InvariantCulture) : "");
+            }
+            table.Add(cells);
+        }
+        return new HtmlReportSection("lot-summary", "Lot summary")
+        {
+            Paragraphs = ["Median and robust spread (median absolute deviation × 1.4826) over the dies with status ok; yield is the share of dies fitted ok."],
+            Tables = [new HtmlTable("Per lot", header, table)],
+        };
+    }
+
+    /// <summary>A progress bar on a terminal, plain lines every 10 % otherwise (standard error).</summary>
+    private sealed class Progress(TextWriter error, int total)
+    {
+        private readonly bool _terminal = !Console.IsErrorRedirected && ReferenceEquals(error, Console.Error);
+        private int _lastDecile = -1;
+
+        public void Report(int done)
+        {
+            if (_terminal)
+            {
+                if (done % 16 != 0 && done != total) return;
+                int width = 40, filled = (int)((long)width * done / total);
+                error.Write($"\r[{new string('#', filled)}{new string('.', width - filled)}] {done}/{total}");
+                return;
+            }
+            int decile = (int)(10L * done / total);
+            if (decile != _lastDecile)
+            {
+                _lastDecile = decile;
+                error.WriteLine($"junctionfit batch: {done}/{total} files");
+            }
+        }
+
+        public void Finish()
+        {
+            if (_terminal) error.WriteLine();
+        }
+    }
+}

@@ -1,0 +1,55 @@
+using JunctionFit.Fitting;
+using JunctionFit.Import;
+using JunctionFit.Results;
+
+namespace JunctionFit.Cli.Commands;
+
+/// <summary>What became of one input file.</summary>
+/// <param name="Path">The file as given.</param>
+/// <param name="Result">The fit (status failed when the file could not be read).</param>
+/// <param name="ReadError">The importer's <c>path:line: reason</c>, or null when the file was read.</param>
+internal readonly record struct CurveOutcome(string Path, FitResult Result, string? ReadError);
+
+/// <summary>
+/// Read → fit for many files: files are processed in parallel in ordered chunks, and each outcome is handed to the
+/// caller in input order on the calling thread, then dropped — results appear deterministically and memory stays flat.
+/// </summary>
+internal static class CurvePipeline
+{
+    private const int ChunkSize = 64;
+
+    public static void Run(IReadOnlyList<string> files, IvReadOptions readOptions, FitPlan plan, int jobs, Action<int, CurveOutcome> consume,
+        CancellationToken cancel = default)
+    {
+        var outcomes = new CurveOutcome[Math.Min(ChunkSize, Math.Max(files.Count, 1))];
+        var parallel = new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, jobs), CancellationToken = cancel };
+        for (int start = 0; start < files.Count; start += ChunkSize)
+        {
+            int count = Math.Min(ChunkSize, files.Count - start);
+            Parallel.For(0, count, parallel, k => outcomes[k] = Process(files[start + k], readOptions, plan));
+            for (int k = 0; k < count; k++)
+            {
+                consume(start + k, outcomes[k]);
+                outcomes[k] = default;
+            }
+        }
+    }
+
+    public static CurveOutcome Process(string path, IvReadOptions readOptions, FitPlan plan)
+    {
+        IvCurve curve;
+        try
+        {
+            curve = IvFileReader.ReadFile(path, readOptions);
+        }
+        catch (IvFormatException e)
+        {
+            return new CurveOutcome(path, FitResult.Failed(path, plan.DisplayName, e.Reason), e.Message);
+        }
+        catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+        {
+            return new CurveOutcome(path, FitResult.Failed(path, plan.DisplayName, e.Message), $"{path}:0: cannot read: {e.Message}");
+        }
+        return new CurveOutcome(path, plan.Fit(curve), null);
+    }
+}

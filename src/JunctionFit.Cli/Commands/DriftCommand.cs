@@ -1,0 +1,189 @@
+using System.Collections.Immutable;
+using System.CommandLine;
+using System.Globalization;
+using JunctionFit.Lots;
+using JunctionFit.Reporting;
+using JunctionFit.Storage;
+
+namespace JunctionFit.Cli.Commands;
+
+/// <summary><c>junctionfit drift RESULTS.csv... --reference LOT</c>: lot-to-lot shift of every parameter against a reference lot.</summary>
+internal static class DriftCommand
+{
+    public static Command Create(CliContext context)
+    {
+        var files = new Argument<string[]>("RESULTS") { Description = "results.csv files written by batch", Arity = ArgumentArity.OneOrMore };
+        var reference = new Option<string[]>("--reference") { Description = "reference lot(s); repeatable", Required = true };
+        var json = new Option<bool>("--json") { Description = "one JSON object per lot and parameter, one per line" };
+        var outDir = new Option<string?>("--out") { Description = "folder for the trend charts (default: beside the first results file)" };
+        var threshold = new Option<string[]>("--threshold") { Description = "practical threshold KEY=VALUE (absolute, in the key's unit) or KEY=N% (relative); repeatable" };
+        var alpha = new Option<double>("--alpha") { Description = "family-wise significance level (Holm)", DefaultValueFactory = _ => 0.05 };
+        var minDies = new Option<int>("--min-dies") { Description = "good dies a lot needs to be compared", DefaultValueFactory = _ => 3 };
+        var command = new Command("drift", "Shift of each lot against a reference lot: Welch interval, Holm-corrected p-value, flag, trend charts.");
+        command.Arguments.Add(files);
+        foreach (var o in new Option[] { reference, json, outDir, threshold, alpha, minDies }) command.Options.Add(o);
+        command.SetAction(parse =>
+        {
+            var paths = parse.GetValue(files) ?? [];
+            var rows = ReadResults(context, paths);
+            if (rows is null) return ExitCodes.UsageOrInput;
+            var options = new DriftOptions(parse.GetValue(reference) ?? []);
+            try
+            {
+                options = options with { Alpha = parse.GetValue(alpha), MinimumGoodDies = parse.GetValue(minDies) };
+            }
+            catch (ArgumentOutOfRangeException e)
+            {
+                throw new UsageException(e.Message);
+            }
+            var thresholds = options.Thresholds;
+            foreach (string item in parse.GetValue(threshold) ?? [])
+            {
+                int eq = item.IndexOf('=', StringComparison.Ordinal);
+                if (eq <= 0) throw new UsageException($"--threshold: '{item}' must be KEY=VALUE or KEY=N%");
+                string key = item[..eq].Trim(), value = item[(eq + 1)..].Trim();
+                bool relative = value.EndsWith('%');
+                double x = QuantityParser.ParseNumber("--threshold", relative ? value[..^1] : value);
+                if (!(x >= 0)) throw new UsageException($"--threshold: {item}: must not be negative");
+                thresholds = thresholds.SetItem(key, relative ? PracticalThreshold.Relative(x / 100.0) : PracticalThreshold.Absolute(x));
+            }
+            options = options with { Thresholds = thresholds };
+            string dir = parse.GetValue(outDir) ?? Path.GetDirectoryName(Path.GetFullPath(paths[0]))!;
+            var (result, _, charts) = LotAnalyses.Drift(rows, options, dir);
+            if (parse.GetValue(json))
+            {
+                foreach (var r in result.Rows) context.Out.WriteLine(LotsJsonFormatter.FormatDrift(r));
+            }
+            else
+            {
+                context.Out.WriteLine($"{"lot",-12} {"parameter",-22} {"n",4} {"shift",12} {"95 % interval",26} {"p (Holm)",10} {"flag",8}  note");
+                foreach (var r in result.Rows)
+                {
+                    string ci = r.Lower95 is double lo && r.Upper95 is double hi ? $"[{LotAnalyses.Num(lo)}, {LotAnalyses.Num(hi)}]" : "";
+                    string p = r.PValueHolm is double pv ? pv.ToString("G3", CultureInfo.InvariantCulture) : "";
+                    context.Out.WriteLine($"{r.Lot,-12} {r.Key,-22} {r.N,4} {LotAnalyses.Num(r.Shift),12} {ci,26} {p,10} {(r.Flagged ? "FLAGGED" : "-"),8}  {r.Reason}");
+                }
+            }
+            context.Error.WriteLine($"junctionfit drift: {result.Flagged.Count()} flagged; trend charts: {string.Join(", ", charts)}");
+            bool insufficient = result.Rows.Any(r => r.Reason is not null);
+            return insufficient ? ExitCodes.SomeFailed : ExitCodes.Success;
+        });
+        return command;
+    }
+
+    /// <summary>Reads results files; prints <c>path:line: reason</c> and returns null when one cannot be read.</summary>
+    internal static ImmutableArray<ResultRow>? ReadResults(CliContext context, IReadOnlyList<string> paths)
+    {
+        var all = ImmutableArray.CreateBuilder<ResultRow>();
+        bool ok = true;
+        foreach (string path in paths)
+        {
+            try
+            {
+                all.AddRange(ResultsCsv.Read(path));
+            }
+            catch (ResultsFormatException e)
+            {
+                context.Error.WriteLine(e.Message);
+                ok = false;
+            }
+            catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+            {
+                context.Error.WriteLine($"{path}:0: cannot read: {e.Message}");
+                ok = false;
+            }
+        }
+        return ok ? all.ToImmutable() : null;
+    }
+}
+
+/// <summary><c>junctionfit thickness RESULTS.csv ELLIPSOMETRY.csv</c>: electrical against ellipsometric thickness.</summary>
+internal static class ThicknessCommand
+{
+    public static Command Create(CliContext context)
+    {
+        var results = new Argument<string>("RESULTS") { Description = "results.csv written by batch" };
+        var ellipsometry = new Argument<string>("ELLIPSOMETRY") { Description = "ellipsometry table: lot,wafer,thickness_nm (per wafer) or with die_x,die_y (per site)" };
+        var json = new Option<bool>("--json") { Description = "print the comparison as one JSON object" };
+        var outDir = new Option<string?>("--out") { Description = "folder for the Bland–Altman plot (default: beside the results file)" };
+        var jobs = new Option<int?>("--jobs") { Description = "parallel refits (default: the number of cores)" };
+        var tolerance = new Option<double>("--tolerance") { Description = "practical tolerance in nm on |electrical - ellipsometric| for flagging a wafer", DefaultValueFactory = _ => LotAnalyses.DefaultThicknessToleranceNm };
+        var fitOptions = new FitOptionSet();
+        var read = new ReadOptionSet();
+        var command = new Command("thickness", "Electrical minus ellipsometric thickness: bias, limits of agreement, per-wafer refit with d fixed (F-test). Give the batch's fit options.");
+        command.Arguments.Add(results);
+        command.Arguments.Add(ellipsometry);
+        command.Options.Add(json);
+        command.Options.Add(outDir);
+        command.Options.Add(jobs);
+        command.Options.Add(tolerance);
+        fitOptions.AddTo(command);
+        read.AddTo(command);
+        command.SetAction(parse =>
+        {
+            string resultsPath = parse.GetValue(results)!;
+            var rows = DriftCommand.ReadResults(context, [resultsPath]);
+            if (rows is null) return ExitCodes.UsageOrInput;
+            ImmutableArray<EllipsometryRow> ell;
+            try
+            {
+                ell = EllipsometryCsv.Read(parse.GetValue(ellipsometry)!);
+            }
+            catch (ResultsFormatException e)
+            {
+                context.Error.WriteLine(e.Message);
+                return ExitCodes.UsageOrInput;
+            }
+            catch (Exception e) when (e is IOException or UnauthorizedAccessException)
+            {
+                context.Error.WriteLine($"{parse.GetValue(ellipsometry)}:0: cannot read: {e.Message}");
+                return ExitCodes.UsageOrInput;
+            }
+            var (plan, _) = fitOptions.Build(parse);
+            string dir = parse.GetValue(outDir) ?? Path.GetDirectoryName(Path.GetFullPath(resultsPath))!;
+            var (comparison, wafers, _, plot) = LotAnalyses.Thickness(rows.Value, ell, plan, read.Build(parse), dir, parse.GetValue(jobs) ?? Environment.ProcessorCount, parse.GetValue(tolerance));
+            if (parse.GetValue(json))
+            {
+                var node = System.Text.Json.Nodes.JsonNode.Parse(LotsJsonFormatter.FormatThickness(comparison))!.AsObject();
+                var array = new System.Text.Json.Nodes.JsonArray();
+                foreach (var w in wafers)
+                {
+                    array.Add(new System.Text.Json.Nodes.JsonObject
+                    {
+                        ["lot"] = w.Lot,
+                        ["wafer"] = w.Wafer,
+                        ["ellipsometry_nm"] = w.EllipsometricNm,
+                        ["electrical_median_nm"] = w.ElectricalMedianNm,
+                        ["dies_refitted"] = w.Dies,
+                        ["f"] = w.Test?.F,
+                        ["p_value"] = w.Test?.PValue,
+                        ["flagged"] = w.Flagged,
+                        ["verdict"] = w.Note,
+                    });
+                }
+                node["wafers"] = array;
+                context.Out.WriteLine(node.ToJsonString());
+            }
+            else if (comparison.Agreement is { } a)
+            {
+                context.Out.WriteLine($"pairs: {a.N} ({comparison.Level.ToString().ToLowerInvariant()})");
+                context.Out.WriteLine($"bias (electrical - ellipsometry): {LotAnalyses.Num(a.BiasNm)} nm, 95 % interval [{LotAnalyses.Num(a.BiasLower95Nm)}, {LotAnalyses.Num(a.BiasUpper95Nm)}] nm");
+                context.Out.WriteLine($"limits of agreement: {LotAnalyses.Num(a.LowerLimitNm)} to {LotAnalyses.Num(a.UpperLimitNm)} nm");
+            }
+            else
+            {
+                context.Out.WriteLine($"no agreement statistics: {comparison.Reason}");
+            }
+            foreach (var w in parse.GetValue(json) ? [] : wafers)
+            {
+                string verdict = w.Test is { } t ? $"F = {t.F:G4}, p = {t.PValue:G3}: {w.Note}" : w.Note;
+                context.Out.WriteLine($"wafer {w.Lot}/{w.Wafer} (ellipsometry {LotAnalyses.Num(w.EllipsometricNm)} nm, {w.Dies} dies refitted with d fixed): {verdict}");
+            }
+            foreach (var u in comparison.UnmatchedResults) context.Error.WriteLine($"{u.File}:0: not matched: {u.Reason}");
+            foreach (var u in comparison.UnmatchedEllipsometry) context.Error.WriteLine($"{parse.GetValue(ellipsometry)}:{u.Row.SourceLine}: not matched: {u.Reason}");
+            if (plot is not null) context.Error.WriteLine($"junctionfit thickness: Bland–Altman plot {plot}");
+            return comparison.Agreement is null ? ExitCodes.SomeFailed : ExitCodes.Success;
+        });
+        return command;
+    }
+}

@@ -1,0 +1,249 @@
+using System.Collections.Immutable;
+using System.Globalization;
+using JunctionFit.Fitting;
+using JunctionFit.Import;
+using JunctionFit.Lots;
+using JunctionFit.Reporting;
+using JunctionFit.Results;
+using JunctionFit.Storage;
+
+namespace JunctionFit.Cli.Commands;
+
+/// <summary>The drift and thickness analyses as the commands and the demo run them: compute, write PNGs, describe.</summary>
+internal static class LotAnalyses
+{
+    private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
+
+    /// <summary>Runs the drift analysis, writes one trend chart per parameter into <paramref name="outDir"/>, returns the result and a report section.</summary>
+    public static (DriftResult Result, HtmlReportSection Section, List<string> Charts) Drift(IReadOnlyList<ResultRow> rows, DriftOptions options, string outDir)
+    {
+        DriftResult result;
+        try
+        {
+            result = DriftAnalysis.Compute(rows, options);
+        }
+        catch (ArgumentException e)
+        {
+            throw new UsageException($"drift: {e.Message}");
+        }
+        Directory.CreateDirectory(outDir);
+        var images = new List<HtmlImage>();
+        var charts = new List<string>();
+        foreach (var chart in result.Charts)
+        {
+            byte[] png = TrendChartRenderer.RenderPng(chart);
+            string path = Path.Combine(outDir, TrendChartRenderer.FileName(chart.Key));
+            Common.AtomicFile.WriteAllBytes(path, png);
+            charts.Add(path);
+            images.Add(new HtmlImage($"{chart.Key}: lot medians with control limits from the reference lot(s)", png));
+        }
+        var header = new[] { "Lot", "Parameter", "n", "Shift", "95 % interval", "p (Holm)", "Threshold", "Flagged", "Note" };
+        var cells = new List<IReadOnlyList<string>>();
+        var highlight = new HashSet<int>();
+        foreach (var r in result.Rows)
+        {
+            if (r.Flagged) highlight.Add(cells.Count);
+            cells.Add([
+                r.Lot, r.Key, r.N.ToString(Inv), Num(r.Shift), r.Lower95 is double lo && r.Upper95 is double hi ? $"[{Num(lo)}, {Num(hi)}]" : "",
+                r.PValueHolm is double p ? p.ToString("G3", Inv) : "", Num(r.Threshold), r.Flagged ? "FLAGGED" : "no", r.Reason ?? "",
+            ]);
+        }
+        var flagged = result.Flagged.ToList();
+        var section = new HtmlReportSection("drift", "Lot-to-lot drift")
+        {
+            Paragraphs =
+            [
+                $"Reference lot(s): {string.Join(", ", result.ReferenceLots)}. Shift of each lot's mean against the reference, 95 % Welch interval, " +
+                $"p-value corrected over lots × parameters (Holm); flagged when significant at {result.Alpha} and larger than the practical threshold.",
+                flagged.Count == 0 ? "Nothing is flagged." : "Flagged: " + string.Join("; ", flagged.Select(f => $"{f.Lot} {f.Key} shift {Num(f.Shift)}")),
+            ],
+            Tables = [new HtmlTable("Shifts against the reference", header, cells) { Highlight = highlight }],
+            Images = images,
+        };
+        return (result, section, charts);
+    }
+
+    /// <summary>
+    /// Compares electrical and ellipsometric thickness, writes the Bland–Altman PNG, and for each wafer refits its good dies
+    /// with d fixed at the ellipsometric value to test (F-test) whether the fits get significantly worse.
+    /// </summary>
+    public static (ThicknessComparisonResult Result, List<WaferConsistency> Wafers, HtmlReportSection Section, string? Plot) Thickness(
+        IReadOnlyList<ResultRow> rows, IReadOnlyList<EllipsometryRow> ellipsometry, FitPlan plan, IvReadOptions readOptions, string outDir, int jobs,
+        double toleranceNm = DefaultThicknessToleranceNm)
+    {
+        var comparison = ThicknessComparison.Compare(rows, ellipsometry);
+        Directory.CreateDirectory(outDir);
+        string? plotPath = null;
+        byte[]? png = null;
+        if (comparison.Agreement is not null)
+        {
+            png = BlandAltmanRenderer.RenderPng(comparison);
+            plotPath = Path.Combine(outDir, BlandAltmanRenderer.DefaultFileName);
+            Common.AtomicFile.WriteAllBytes(plotPath, png);
+        }
+        var wafers = WaferConsistencyTests(rows, ellipsometry, plan, readOptions, jobs, toleranceNm);
+        var paragraphs = new List<string>();
+        if (comparison.Agreement is { } a)
+        {
+            paragraphs.Add($"Electrical minus ellipsometric thickness over {a.N} {(comparison.Level == ThicknessMatchLevel.Site ? "sites" : "wafers")}: " +
+                           $"bias {Num(a.BiasNm)} nm, 95 % interval [{Num(a.BiasLower95Nm)}, {Num(a.BiasUpper95Nm)}] nm; " +
+                           $"limits of agreement {Num(a.LowerLimitNm)} to {Num(a.UpperLimitNm)} nm (Bland & Altman 1986).");
+        }
+        else
+        {
+            paragraphs.Add($"No agreement statistics: {comparison.Reason}");
+        }
+        var flaggedWafers = wafers.Where(w => w.Flagged).ToList();
+        paragraphs.Add(flaggedWafers.Count == 0
+            ? "No wafer is flagged by the consistency refit."
+            : "Flagged wafers: " + string.Join("; ", flaggedWafers.Select(w => $"{w.Lot}/{w.Wafer} (electrical {Num(w.ElectricalMedianNm)} nm, ellipsometry {Num(w.EllipsometricNm)} nm)")));
+        paragraphs.Add($"{comparison.UnmatchedResults.Length} result rows and {comparison.UnmatchedEllipsometry.Length} ellipsometry rows were not matched (listed below).");
+        var waferCells = wafers.Select(w => (IReadOnlyList<string>)[w.Lot, w.Wafer, Num(w.EllipsometricNm), Num(w.ElectricalMedianNm), w.Dies.ToString(Inv),
+            w.Test is { } t ? t.F.ToString("G4", Inv) : "", w.Test is { } t2 ? t2.PValue.ToString("G3", Inv) : "", w.Flagged ? "FLAGGED" : w.Test is null ? "" : "no", w.Note]).ToList();
+        var highlight = new HashSet<int>(wafers.Select((w, i) => (w, i)).Where(x => x.w.Flagged).Select(x => x.i));
+        var unmatched = comparison.UnmatchedResults.Select(u => (IReadOnlyList<string>)["result", u.File, u.Lot ?? "", u.Wafer ?? "", u.Reason])
+            .Concat(comparison.UnmatchedEllipsometry.Select(u => (IReadOnlyList<string>)["ellipsometry", $"line {u.Row.SourceLine}", u.Row.Lot, u.Row.Wafer, u.Reason]))
+            .ToList();
+        var section = new HtmlReportSection("thickness", "Electrical thickness against ellipsometry")
+        {
+            Paragraphs = paragraphs,
+            Tables =
+            [
+                new HtmlTable("Pairs", ["Lot", "Wafer", "Die x", "Die y", "Electrical (nm)", "Ellipsometry (nm)", "Difference (nm)"],
+                    comparison.Pairs.Select(p => (IReadOnlyList<string>)[p.Lot, p.Wafer, p.DieX?.ToString(Inv) ?? "", p.DieY?.ToString(Inv) ?? "",
+                        Num(p.ElectricalNm), Num(p.EllipsometricNm), Num(p.DifferenceNm)]).ToList()),
+                new HtmlTable("Per wafer: refit with d fixed at the ellipsometric value (F-test)",
+                    ["Lot", "Wafer", "Ellipsometry (nm)", "Electrical median (nm)", "Dies refitted", "F", "p", "Flagged", "Verdict"], waferCells) { Highlight = highlight },
+                new HtmlTable("Not matched", ["Side", "Row", "Lot", "Wafer", "Reason"], unmatched),
+            ],
+            Images = png is null ? [] : [new HtmlImage("Bland–Altman: difference against mean, with bias and 95 % limits of agreement", png)],
+        };
+        return (comparison, wafers, section, plotPath);
+    }
+
+    /// <summary>Outcome of the per-wafer consistency refit.</summary>
+    internal sealed record WaferConsistency(string Lot, string Wafer, double EllipsometricNm, int Dies, ConsistencyTest? Test, string Note)
+    {
+        /// <summary>Median electrical thickness of the wafer's good dies, nm.</summary>
+        public double? ElectricalMedianNm { get; init; }
+
+        /// <summary>True when the F-test rejects and the thicknesses differ by more than the practical tolerance.</summary>
+        public bool Flagged { get; init; }
+    }
+
+    /// <summary>
+    /// Default practical tolerance on |electrical − ellipsometric| thickness below which a significant F-test is not flagged
+    /// (about one atomic layer of the oxide; common practice, no source).
+    /// </summary>
+    public const double DefaultThicknessToleranceNm = 0.1;
+
+    private static List<WaferConsistency> WaferConsistencyTests(IReadOnlyList<ResultRow> rows, IReadOnlyList<EllipsometryRow> ellipsometry,
+        FitPlan plan, IvReadOptions readOptions, int jobs, double toleranceNm)
+    {
+        var list = new List<WaferConsistency>();
+        foreach (var wafer in ellipsometry.GroupBy(e => (e.Lot, e.Wafer)))
+        {
+            var perWafer = wafer.Where(e => !e.IsSite).ToList();
+            var dies = rows.Where(r => r.IsGood && r.Lot == wafer.Key.Lot && r.Wafer == wafer.Key.Wafer).ToList();
+            if (dies.Count == 0)
+            {
+                list.Add(new WaferConsistency(wafer.Key.Lot, wafer.Key.Wafer, wafer.First().ThicknessNm, 0, null, "no good dies in the results"));
+                continue;
+            }
+            double rssFree = 0, rssFixed = 0;
+            int dfFree = 0, refitted = 0;
+            var notes = new List<string>();
+            var sync = new object();
+            Parallel.ForEach(dies, new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, jobs) }, die =>
+            {
+                var site = wafer.FirstOrDefault(e => e.IsSite && e.DieX == die.DieX && e.DieY == die.DieY);
+                double? dNm = site?.ThicknessNm ?? (perWafer.Count > 0 ? perWafer[0].ThicknessNm : null);
+                if (dNm is null) return;
+                IvCurve curve;
+                try { curve = IvFileReader.ReadFile(die.File, readOptions); }
+                catch (Exception e) when (e is IvFormatException or IOException or UnauthorizedAccessException)
+                {
+                    lock (sync) notes.Add($"{die.File}: not refitted ({e.Message})");
+                    return;
+                }
+                var free = plan.Fit(curve);
+                var fixedPlan = new FitPlan(plan.ModelNames, plan.ModelOptions, plan.Parasitics,
+                    plan.Options with { FixedValues = plan.Options.FixedValues.SetItem("thickness_nm", dNm.Value * 1e-9) }, plan.TemperatureFromFile);
+                var pinned = fixedPlan.Fit(curve);
+                if (free.Quality is not { } qf || pinned.Quality is not { } qp || free.Status == FitStatus.Failed || pinned.Status == FitStatus.Failed) return;
+                int k = free.Parameters.Count(p => !p.IsFixed);
+                lock (sync)
+                {
+                    rssFree += qf.ResidualSumOfSquares;
+                    rssFixed += qp.ResidualSumOfSquares;
+                    dfFree += qf.PointsUsed - k;
+                    refitted++;
+                }
+            });
+            double ellipsometric = perWafer.Count > 0 ? perWafer[0].ThicknessNm : wafer.Average(e => e.ThicknessNm);
+            if (refitted == 0 || dfFree <= 0)
+            {
+                list.Add(new WaferConsistency(wafer.Key.Lot, wafer.Key.Wafer, ellipsometric, 0, null, "no die could be refitted" + (notes.Count > 0 ? ": " + notes[0] : "")));
+                continue;
+            }
+            var test = ThicknessComparison.ConsistencyFTest(rssFree, dfFree, rssFixed, refitted);
+            double? median = LotStatistics.Median(dies.Select(r => r.ValueOf("thickness_nm")).OfType<double>().ToList());
+            bool large = median is double m && Math.Abs(m - ellipsometric) > toleranceNm;
+            bool flagged = !test.Consistent && large;
+            string verdict = flagged
+                ? $"INCONSISTENT: fixing d at the ellipsometric value makes the fits significantly worse (p = {test.PValue:G2}) and the electrical median differs by {median!.Value - ellipsometric:+0.###;-0.###} nm (tolerance {toleranceNm} nm)"
+                : !test.Consistent
+                    ? $"consistent within the tolerance: the refit is significantly worse (p = {test.PValue:G2}, die-to-die thickness spread), but the electrical median is within {toleranceNm} nm"
+                    : "consistent: fixing d at the ellipsometric value does not make the fits significantly worse";
+            list.Add(new WaferConsistency(wafer.Key.Lot, wafer.Key.Wafer, ellipsometric, refitted, test, notes.Count > 0 ? verdict + "; " + string.Join("; ", notes) : verdict)
+            {
+                ElectricalMedianNm = median,
+                Flagged = flagged,
+            });
+        }
+        return list;
+    }
+
+    /// <summary>Robust z above which a good die is listed as out of family in its lot (common practice, no source).</summary>
+    public const double OutlierRobustZ = 5.0;
+
+    /// <summary>
+    /// Good dies whose barrier height or thickness lies more than <see cref="OutlierRobustZ"/> robust standard deviations
+    /// (scaled MAD) from their lot's median. A parallel leak or a series resistance can be absorbed by a thinner, higher
+    /// barrier with a fit that looks perfect; against its lot such a die stands out.
+    /// </summary>
+    public static (List<(ResultRow Row, string Key, double Value, double Median, double Z)> Outliers, HtmlReportSection Section) Outliers(IReadOnlyList<ResultRow> rows)
+    {
+        var found = new List<(ResultRow Row, string Key, double Value, double Median, double Z)>();
+        foreach (var lot in rows.Where(r => r.IsGood && r.Lot is not null).GroupBy(r => r.Lot!))
+        {
+            foreach (string key in (string[])["barrier_height_eV", "thickness_nm"])
+            {
+                var values = lot.Select(r => r.ValueOf(key)).OfType<double>().ToList();
+                if (values.Count < 5) continue;
+                double? median = LotStatistics.Median(values);
+                double? spread = LotStatistics.ScaledMad(values);
+                if (median is not double m || spread is not double sd || !(sd > 0)) continue;
+                foreach (var r in lot)
+                {
+                    if (r.ValueOf(key) is double v && Math.Abs(v - m) / sd > OutlierRobustZ) found.Add((r, key, v, m, (v - m) / sd));
+                }
+            }
+        }
+        var cells = found.Select(o => (IReadOnlyList<string>)[o.Row.File, o.Row.Lot ?? "", o.Row.Wafer ?? "", $"{o.Row.DieX},{o.Row.DieY}", o.Key, Num(o.Value), Num(o.Median), o.Z.ToString("0.0", Inv)]).ToList();
+        var section = new HtmlReportSection("outliers", "Dies out of family")
+        {
+            Paragraphs =
+            [
+                $"Good fits whose barrier height or thickness lies more than {OutlierRobustZ} robust standard deviations (scaled MAD) from their lot's median. " +
+                "A parallel leak path or a series resistance can be absorbed by a thinner, higher barrier with residuals that look clean; check these dies " +
+                "(fit them with --free leakage-conductance or --free series-resistance, or look at the device).",
+                found.Count == 0 ? "No die is out of family." : $"{found.Count} out of family.",
+            ],
+            Tables = found.Count == 0 ? [] : [new HtmlTable("Out of family", ["File", "Lot", "Wafer", "Die", "Parameter", "Value", "Lot median", "Robust z"], cells)],
+        };
+        return (found, section);
+    }
+
+    internal static string Num(double? v) => v is double x && double.IsFinite(x) ? x.ToString("0.####", Inv) : "";
+}
