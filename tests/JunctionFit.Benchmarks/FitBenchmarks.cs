@@ -38,7 +38,16 @@ public class FitBenchmarks
         _curve = BenchmarkCurves.SimmonsCurve();
         _model = BenchmarkCurves.Model(Model);
         _options = AreaKnown ? BenchmarkCurves.AreaKnown : BenchmarkCurves.AreaFree;
-        Console.WriteLine($"// fit {Model}, area {(AreaKnown ? "known" : "free")}: {Describe(JunctionFitter.Fit(_curve, _model, _options))}");
+        string label = $"// fit {Model}, area {(AreaKnown ? "known" : "free")}";
+        try
+        {
+            Console.WriteLine($"{label}: {Describe(JunctionFitter.Fit(_curve, _model, _options))}");
+        }
+        catch (ArgumentException e)
+        {
+            // A fit must report failure as a status; print the exception so the NA row in the table has its reason.
+            Console.WriteLine($"{label}: JunctionFitter.Fit threw {e.GetType().Name}: {e.Message}");
+        }
     }
 
     [Benchmark]

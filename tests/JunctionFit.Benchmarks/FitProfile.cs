@@ -39,7 +39,7 @@ internal static class FitProfile
             double modelUs = (values * valueNs + gradients * gradientNs) / 1000.0;
             Console.WriteLine($"{label}: {fitUs:F1} us per fit, {(double)iterations / fits:F1} LM iterations (all starts)");
             Console.WriteLine($"  model values per fit:    {values,8:F0} x {valueNs,5:F1} ns = {values * valueNs / 1000.0,7:F1} us" +
-                              $"  (grid: {GridValues(options)} of them)");
+                              $"  (grid: {GridValues} of them)");
             Console.WriteLine($"  model gradients per fit: {gradients,8:F0} x {gradientNs,5:F1} ns = {gradients * gradientNs / 1000.0,7:F1} us");
             Console.WriteLine($"  everything else (solver algebra, covariance SVD, diagnostics, allocation): {fitUs - modelUs:F1} us");
 
@@ -52,7 +52,7 @@ internal static class FitProfile
     }
 
     /// <summary>Model values the start grid asks for: 12 × 12 cells (φ, d free) on 48 points.</summary>
-    private static int GridValues(FitOptions options) => 12 * 12 * 48;
+    private const int GridValues = 12 * 12 * 48;
 
     private static double PerPointNs(double[] voltages, Func<double, double> f)
     {
