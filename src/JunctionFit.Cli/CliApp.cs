@@ -22,6 +22,8 @@ public static class CliApp
         root.Subcommands.Add(BatchCommand.Create(context));
         root.Subcommands.Add(DriftCommand.Create(context));
         root.Subcommands.Add(ThicknessCommand.Create(context));
+        root.Subcommands.Add(TemperatureSeriesCommand.Create(context));
+        root.Subcommands.Add(ResultsCommand.Create(context));
         var parse = root.Parse(args);
         if (parse.Errors.Count > 0)
         {

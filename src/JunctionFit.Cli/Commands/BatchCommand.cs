@@ -29,6 +29,9 @@ internal static class BatchCommand
         var outDir = new Option<string>("--out") { Description = "output folder", Required = true };
         var noPlots = new Option<bool>("--no-plots") { Description = "skip the per-die fit plots" };
         var jobs = new Option<int?>("--jobs") { Description = "parallel fits (default: the number of cores)" };
+        var db = new Option<string?>("--db") { Description = "results database: a SQLite file (default OUTDIR/junctionfit.db) or a PostgreSQL connection string" };
+        var noDb = new Option<bool>("--no-db") { Description = "do not store results in a database" };
+        var force = new Option<bool>("--force") { Description = "refit files whose result is already stored for the same content, model and options" };
         var fitOptions = new FitOptionSet();
         var read = new ReadOptionSet();
         var command = new Command("batch", "Fit a whole lot: results.csv, fit plots, wafer maps, lot summary and report.html.");
@@ -36,6 +39,9 @@ internal static class BatchCommand
         command.Options.Add(outDir);
         command.Options.Add(noPlots);
         command.Options.Add(jobs);
+        command.Options.Add(db);
+        command.Options.Add(noDb);
+        command.Options.Add(force);
         fitOptions.AddTo(command);
         read.AddTo(command);
         command.SetAction(parse =>
@@ -43,7 +49,12 @@ internal static class BatchCommand
             var (plan, summary) = fitOptions.Build(parse);
             int jobCount = parse.GetValue(jobs) ?? Environment.ProcessorCount;
             if (jobCount < 1) throw new UsageException($"--jobs: {jobCount} must be at least 1");
-            var settings = new BatchSettings(parse.GetValue(dir)!, parse.GetValue(outDir)!, !parse.GetValue(noPlots), jobCount, read.Build(parse), plan, summary);
+            var settings = new BatchSettings(parse.GetValue(dir)!, parse.GetValue(outDir)!, !parse.GetValue(noPlots), jobCount, read.Build(parse), plan, summary)
+            {
+                Database = parse.GetValue(noDb) ? null : parse.GetValue(db) ?? Path.Combine(parse.GetValue(outDir)!, ResultStore.DefaultFileName),
+                Force = parse.GetValue(force),
+                IdentityExtras = [.. fitOptions.IdentityExtras(parse), .. read.IdentityExtras(parse)],
+            };
             return Run(context, settings).ExitCode;
         });
         return command;
@@ -51,6 +62,15 @@ internal static class BatchCommand
 
     internal sealed record BatchSettings(string InputDir, string OutDir, bool Plots, int Jobs, IvReadOptions ReadOptions, FitPlan Plan, string Summary)
     {
+        /// <summary>Results database (path or connection string); null for none.</summary>
+        public string? Database { get; init; }
+
+        /// <summary>Refit what is already stored.</summary>
+        public bool Force { get; init; }
+
+        /// <summary>Settings beyond <see cref="FitOptions"/> that change a fit, for the result identity.</summary>
+        public IReadOnlyList<KeyValuePair<string, string>> IdentityExtras { get; init; } = [];
+
         /// <summary>Builds further report sections from the batch's rows (the demo adds drift and thickness).</summary>
         public Func<IReadOnlyList<ResultRow>, IReadOnlyList<HtmlReportSection>>? ExtraSections { get; init; }
     }
@@ -80,11 +100,51 @@ internal static class BatchCommand
         var plotNames = new HashSet<string>(StringComparer.Ordinal);
         int unreadable = 0, notOk = 0, done = 0;
         var progress = new Progress(context.Error, files.Count);
+        using var store = s.Database is null ? null : OpenStore(context, s.Database);
+        string optionsText = ResultIdentity.CanonicalOptions(s.Plan.Options, s.IdentityExtras);
+        string optionsHash = ResultIdentity.OptionsHash(optionsText);
+        var fileKeys = new ResultKey?[files.Count];
+        var stored = new Dictionary<ResultKey, StoredResult>();
+        if (store is not null)
+        {
+            Parallel.For(0, files.Count, new ParallelOptions { MaxDegreeOfParallelism = s.Jobs }, k =>
+            {
+                try { fileKeys[k] = new ResultKey(ResultIdentity.FileSha256(files[k]), s.Plan.DisplayName, optionsHash); }
+                catch (Exception e) when (e is IOException or UnauthorizedAccessException) { fileKeys[k] = null; }
+            });
+            if (!s.Force)
+            {
+                var existing = store.ExistingKeys(fileKeys.OfType<ResultKey>());
+                if (existing.Count > 0)
+                {
+                    foreach (var r in store.Query(model: s.Plan.DisplayName))
+                    {
+                        if (existing.Contains(r.Key)) stored[r.Key] = r;
+                    }
+                    context.Error.WriteLine($"junctionfit batch: {stored.Count} of {files.Count} files are already stored with the same content, model and options; " +
+                                            "they are not refitted (--force refits them)");
+                }
+            }
+        }
+        var storeRun = RunInfo.StartNew(VersionInfo.Text);
+        var dbWriter = store is null ? null : new ChunkedResultWriter(store, chunkSize: 100);
         using (var writer = new StreamWriter(partial, false, AtomicFile.Utf8NoBom))
         {
             writer.Write(ResultsCsv.FormatHeader(keys));
-            CurvePipeline.Run(files, s.ReadOptions, s.Plan, s.Jobs, (index, outcome) =>
+            CurveOutcome Process(int k)
             {
+                if (fileKeys[k] is ResultKey key && stored.TryGetValue(key, out var previous))
+                {
+                    return new CurveOutcome(files[k], previous.Result with { SourcePath = files[k] }, null) { FromStore = true };
+                }
+                return CurvePipeline.Process(files[k], s.ReadOptions, s.Plan);
+            }
+            CurvePipeline.Run(files.Count, Process, s.Jobs, (index, outcome) =>
+            {
+                if (dbWriter is not null && !outcome.FromStore && fileKeys[index] is ResultKey newKey)
+                {
+                    dbWriter.Add(new StoredResult(newKey, optionsText, storeRun, outcome.Result with { Curve = null }));
+                }
                 if (outcome.ReadError is not null)
                 {
                     context.Error.WriteLine(outcome.ReadError);
@@ -107,7 +167,9 @@ internal static class BatchCommand
             writer.Flush();
             writer.BaseStream.Flush();
         }
+        dbWriter?.Flush();
         File.Move(partial, resultsPath, overwrite: true);
+        if (store is not null) context.Error.WriteLine($"junctionfit batch: database {store.Description} holds {store.Count()} results");
         progress.Finish();
 
         // Lot summary and wafer maps.
@@ -176,6 +238,22 @@ internal static class BatchCommand
         context.Error.WriteLine($"junctionfit batch: report  {reportPath}");
         int code = unreadable == files.Count ? ExitCodes.UsageOrInput : notOk == 0 ? ExitCodes.Success : ExitCodes.SomeFailed;
         return new BatchOutcome(code, rows, resultsPath, reportPath);
+    }
+
+    internal static IResultStore OpenStore(CliContext context, string database)
+    {
+        try
+        {
+            return ResultStore.Open(database);
+        }
+        catch (ResultStoreException e)
+        {
+            throw new UsageException($"--db: {e.Message}");
+        }
+        catch (ArgumentException e)
+        {
+            throw new UsageException($"--db: {ConnectionStrings.Redact(database)}: {e.Message}");
+        }
     }
 
     /// <summary>Keys of every parameter any model of the plan can report, in the standard order.</summary>

@@ -8,7 +8,11 @@ namespace JunctionFit.Cli.Commands;
 /// <param name="Path">The file as given.</param>
 /// <param name="Result">The fit (status failed when the file could not be read).</param>
 /// <param name="ReadError">The importer's <c>path:line: reason</c>, or null when the file was read.</param>
-internal readonly record struct CurveOutcome(string Path, FitResult Result, string? ReadError);
+internal readonly record struct CurveOutcome(string Path, FitResult Result, string? ReadError)
+{
+    /// <summary>True when the result was taken from the results database instead of being fitted now.</summary>
+    public bool FromStore { get; init; }
+}
 
 /// <summary>
 /// Read → fit for many files: files are processed in parallel in ordered chunks, and each outcome is handed to the
@@ -20,13 +24,17 @@ internal static class CurvePipeline
 
     public static void Run(IReadOnlyList<string> files, IvReadOptions readOptions, FitPlan plan, int jobs, Action<int, CurveOutcome> consume,
         CancellationToken cancel = default)
+        => Run(files.Count, k => Process(files[k], readOptions, plan), jobs, consume, cancel);
+
+    /// <summary>Runs <paramref name="process"/> for indices 0 … count − 1 in parallel chunks, consuming in order.</summary>
+    public static void Run(int fileCount, Func<int, CurveOutcome> process, int jobs, Action<int, CurveOutcome> consume, CancellationToken cancel = default)
     {
-        var outcomes = new CurveOutcome[Math.Min(ChunkSize, Math.Max(files.Count, 1))];
+        var outcomes = new CurveOutcome[Math.Min(ChunkSize, Math.Max(fileCount, 1))];
         var parallel = new ParallelOptions { MaxDegreeOfParallelism = Math.Max(1, jobs), CancellationToken = cancel };
-        for (int start = 0; start < files.Count; start += ChunkSize)
+        for (int start = 0; start < fileCount; start += ChunkSize)
         {
-            int count = Math.Min(ChunkSize, files.Count - start);
-            Parallel.For(0, count, parallel, k => outcomes[k] = Process(files[start + k], readOptions, plan));
+            int count = Math.Min(ChunkSize, fileCount - start);
+            Parallel.For(0, count, parallel, k => outcomes[k] = process(start + k));
             for (int k = 0; k < count; k++)
             {
                 consume(start + k, outcomes[k]);

@@ -12,7 +12,9 @@ internal static class DriftCommand
 {
     public static Command Create(CliContext context)
     {
-        var files = new Argument<string[]>("RESULTS") { Description = "results.csv files written by batch", Arity = ArgumentArity.OneOrMore };
+        var files = new Argument<string[]>("RESULTS") { Description = "results.csv files written by batch (or --db)", Arity = ArgumentArity.ZeroOrMore };
+        var db = new Option<string?>("--db") { Description = "read the results from this database (SQLite file or PostgreSQL connection string) instead of, or as well as, CSV files" };
+        var lotFilter = new Option<string[]>("--lot") { Description = "with --db: only these lots (repeatable); default all" };
         var reference = new Option<string[]>("--reference") { Description = "reference lot(s); repeatable", Required = true };
         var json = new Option<bool>("--json") { Description = "one JSON object per lot and parameter, one per line" };
         var outDir = new Option<string?>("--out") { Description = "folder for the trend charts (default: beside the first results file)" };
@@ -21,12 +23,15 @@ internal static class DriftCommand
         var minDies = new Option<int>("--min-dies") { Description = "good dies a lot needs to be compared", DefaultValueFactory = _ => 3 };
         var command = new Command("drift", "Shift of each lot against a reference lot: Welch interval, Holm-corrected p-value, flag, trend charts.");
         command.Arguments.Add(files);
-        foreach (var o in new Option[] { reference, json, outDir, threshold, alpha, minDies }) command.Options.Add(o);
+        foreach (var o in new Option[] { reference, json, outDir, threshold, alpha, minDies, db, lotFilter }) command.Options.Add(o);
         command.SetAction(parse =>
         {
             var paths = parse.GetValue(files) ?? [];
+            string? database = parse.GetValue(db);
+            if (paths.Length == 0 && database is null) throw new UsageException("drift: give results.csv files or --db");
             var rows = ReadResults(context, paths);
             if (rows is null) return ExitCodes.UsageOrInput;
+            if (database is not null) rows = rows.Value.AddRange(ReadDatabase(context, database, parse.GetValue(lotFilter) ?? []));
             var options = new DriftOptions(parse.GetValue(reference) ?? []);
             try
             {
@@ -48,8 +53,8 @@ internal static class DriftCommand
                 thresholds = thresholds.SetItem(key, relative ? PracticalThreshold.Relative(x / 100.0) : PracticalThreshold.Absolute(x));
             }
             options = options with { Thresholds = thresholds };
-            string dir = parse.GetValue(outDir) ?? Path.GetDirectoryName(Path.GetFullPath(paths[0]))!;
-            var (result, _, charts) = LotAnalyses.Drift(rows, options, dir);
+            string dir = parse.GetValue(outDir) ?? (paths.Length > 0 ? Path.GetDirectoryName(Path.GetFullPath(paths[0]))! : Directory.GetCurrentDirectory());
+            var (result, _, charts) = LotAnalyses.Drift(rows.Value, options, dir);
             if (parse.GetValue(json))
             {
                 foreach (var r in result.Rows) context.Out.WriteLine(LotsJsonFormatter.FormatDrift(r));
@@ -69,6 +74,14 @@ internal static class DriftCommand
             return insufficient ? ExitCodes.SomeFailed : ExitCodes.Success;
         });
         return command;
+    }
+
+    /// <summary>Rows stored in a results database (all lots, or the given ones).</summary>
+    internal static IEnumerable<ResultRow> ReadDatabase(CliContext context, string database, IReadOnlyList<string> lots)
+    {
+        using var store = BatchCommand.OpenStore(context, database);
+        var stored = lots.Count == 0 ? store.Query() : lots.SelectMany(l => store.Query(lot: l)).ToList();
+        return stored.Select(r => ResultRow.FromFitResult(r.Result)).ToList();
     }
 
     /// <summary>Reads results files; prints <c>path:line: reason</c> and returns null when one cannot be read.</summary>
@@ -102,8 +115,12 @@ internal static class ThicknessCommand
 {
     public static Command Create(CliContext context)
     {
-        var results = new Argument<string>("RESULTS") { Description = "results.csv written by batch" };
-        var ellipsometry = new Argument<string>("ELLIPSOMETRY") { Description = "ellipsometry table: lot,wafer,thickness_nm (per wafer) or with die_x,die_y (per site)" };
+        var inputs = new Argument<string[]>("RESULTS_AND_ELLIPSOMETRY")
+        {
+            Description = "results.csv written by batch (omit with --db), then the ellipsometry table: lot,wafer,thickness_nm (per wafer) or with die_x,die_y (per site)",
+            Arity = new ArgumentArity(1, 2),
+        };
+        var db = new Option<string?>("--db") { Description = "read the results from this database instead of a results.csv" };
         var json = new Option<bool>("--json") { Description = "print the comparison as one JSON object" };
         var outDir = new Option<string?>("--out") { Description = "folder for the Bland–Altman plot (default: beside the results file)" };
         var jobs = new Option<int?>("--jobs") { Description = "parallel refits (default: the number of cores)" };
@@ -111,8 +128,8 @@ internal static class ThicknessCommand
         var fitOptions = new FitOptionSet();
         var read = new ReadOptionSet();
         var command = new Command("thickness", "Electrical minus ellipsometric thickness: bias, limits of agreement, per-wafer refit with d fixed (F-test). Give the batch's fit options.");
-        command.Arguments.Add(results);
-        command.Arguments.Add(ellipsometry);
+        command.Arguments.Add(inputs);
+        command.Options.Add(db);
         command.Options.Add(json);
         command.Options.Add(outDir);
         command.Options.Add(jobs);
@@ -121,13 +138,22 @@ internal static class ThicknessCommand
         read.AddTo(command);
         command.SetAction(parse =>
         {
-            string resultsPath = parse.GetValue(results)!;
-            var rows = DriftCommand.ReadResults(context, [resultsPath]);
+            var given = parse.GetValue(inputs) ?? [];
+            string? database = parse.GetValue(db);
+            if ((database is null && given.Length != 2) || (database is not null && given.Length != 1))
+            {
+                throw new UsageException("thickness: give RESULTS.csv ELLIPSOMETRY.csv, or --db DB ELLIPSOMETRY.csv");
+            }
+            string ellipsometryPath = given[^1];
+            string resultsPath = database is null ? given[0] : Path.Combine(Directory.GetCurrentDirectory(), "results.csv");
+            var rows = database is null
+                ? DriftCommand.ReadResults(context, [resultsPath])
+                : [.. DriftCommand.ReadDatabase(context, database, [])];
             if (rows is null) return ExitCodes.UsageOrInput;
             ImmutableArray<EllipsometryRow> ell;
             try
             {
-                ell = EllipsometryCsv.Read(parse.GetValue(ellipsometry)!);
+                ell = EllipsometryCsv.Read(ellipsometryPath);
             }
             catch (ResultsFormatException e)
             {
@@ -136,7 +162,7 @@ internal static class ThicknessCommand
             }
             catch (Exception e) when (e is IOException or UnauthorizedAccessException)
             {
-                context.Error.WriteLine($"{parse.GetValue(ellipsometry)}:0: cannot read: {e.Message}");
+                context.Error.WriteLine($"{ellipsometryPath}:0: cannot read: {e.Message}");
                 return ExitCodes.UsageOrInput;
             }
             var (plan, _) = fitOptions.Build(parse);
@@ -180,7 +206,7 @@ internal static class ThicknessCommand
                 context.Out.WriteLine($"wafer {w.Lot}/{w.Wafer} (ellipsometry {LotAnalyses.Num(w.EllipsometricNm)} nm, {w.Dies} dies refitted with d fixed): {verdict}");
             }
             foreach (var u in comparison.UnmatchedResults) context.Error.WriteLine($"{u.File}:0: not matched: {u.Reason}");
-            foreach (var u in comparison.UnmatchedEllipsometry) context.Error.WriteLine($"{parse.GetValue(ellipsometry)}:{u.Row.SourceLine}: not matched: {u.Reason}");
+            foreach (var u in comparison.UnmatchedEllipsometry) context.Error.WriteLine($"{ellipsometryPath}:{u.Row.SourceLine}: not matched: {u.Reason}");
             if (plot is not null) context.Error.WriteLine($"junctionfit thickness: Bland–Altman plot {plot}");
             return comparison.Agreement is null ? ExitCodes.SomeFailed : ExitCodes.Success;
         });

@@ -205,6 +205,17 @@ internal sealed class FitOptionSet
         return (new FitPlan(names, modelOptions, parasitics, options, fileTemperature), string.Join("; ", summary));
     }
 
+    /// <summary>Settings outside <see cref="FitOptions"/> that change a fit, for the results database's identity.</summary>
+    public IEnumerable<KeyValuePair<string, string>> IdentityExtras(ParseResult parse)
+    {
+        var (plan, _) = Build(parse);
+        yield return new("models", string.Join(",", plan.ModelNames));
+        yield return new("temperature_K", plan.ModelOptions.TemperatureK?.ToString("R", System.Globalization.CultureInfo.InvariantCulture) ?? "");
+        yield return new("temperature_from_file", plan.TemperatureFromFile ? "true" : "false");
+        yield return new("relative_permittivity", plan.ModelOptions.RelativePermittivity.ToString("R", System.Globalization.CultureInfo.InvariantCulture));
+        yield return new("parasitics", $"{plan.Parasitics.SeriesResistance},{plan.Parasitics.LeakageConductance},{plan.Parasitics.VoltageOffset},{plan.Parasitics.CurrentOffset}");
+    }
+
     private static string ResolveName(string name)
     {
         foreach (string known in ModelResolver.Names)

@@ -34,7 +34,7 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
 
         var summaries = new List<FitResult>(files.Count);
         var plotFiles = new List<string?>(files.Count);
-        int fitted = 0, notOk = 0;
+        int fitted = 0, notOk = 0, failed = 0;
         var usedPlotNames = new HashSet<string>(StringComparer.Ordinal);
         CurvePipeline.Run(files, readOptions, plan, jobs, (_, outcome) =>
         {
@@ -49,6 +49,7 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
             }
             var result = outcome.Result;
             if (result.Status != FitStatus.Ok) notOk++;
+            if (result.Status == FitStatus.Failed) failed++;
             if (result.Status == FitStatus.Failed && outcome.ReadError is null)
             {
                 context.Error.WriteLine($"{result.SourcePath}:0: fit failed: {result.Error}");
@@ -60,10 +61,14 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
                 plot = Path.Combine(plotDir, UniquePlotName(result.SourcePath, usedPlotNames));
                 FitPlotRenderer.WritePng(result, plot);
             }
-            summaries.Add(result with { Curve = null });
-            plotFiles.Add(plot);
+            if (!json || outDir is not null)
+            {
+                // The console table and the report need every result; JSON-only runs keep nothing (flat memory).
+                summaries.Add(result with { Curve = null });
+                plotFiles.Add(plot);
+            }
         });
-        FailedCount = summaries.Count(r => r.Status == FitStatus.Failed);
+        FailedCount = failed;
 
         if (!json)
         {

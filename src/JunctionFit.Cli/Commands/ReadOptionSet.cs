@@ -34,6 +34,14 @@ internal sealed class ReadOptionSet
         }
     }
 
+    /// <summary>Import overrides, for the results database's identity.</summary>
+    public IEnumerable<KeyValuePair<string, string>> IdentityExtras(ParseResult parse)
+    {
+        var o = Build(parse);
+        yield return new("read", $"v={o.VoltageColumn};i={o.CurrentColumn};vu={o.VoltageUnit};iu={o.CurrentUnit};delim={(o.Delimiter is char c ? ((int)c).ToString(CultureInfo.InvariantCulture) : "")};" +
+                                 $"dec={o.DecimalComma};seg={(o.Segments is { } s ? string.Join(",", s) : "")};compliance={o.MaskCompliance};pattern={o.PathPattern}");
+    }
+
     public IvReadOptions Build(ParseResult parse)
     {
         try

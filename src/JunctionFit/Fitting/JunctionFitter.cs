@@ -80,57 +80,19 @@ public static class JunctionFitter
         for (int k = 0, j = 0; k < p; k++) if (isFree[k]) freeIndex[j++] = k;
 
         // ---- masks and weights --------------------------------------------------------------------------
-        double floor = options.NoiseFloorA ?? 0.0;
-        double? compliance = options.ComplianceA ?? curve.ComplianceA;
-        int n = curve.Count;
-        var used = new bool[n];
-        int usedCount = 0, zeroBias = 0, wrongSign = 0, belowFloor = 0, atCompliance = 0, flagged = 0, notFinite = 0;
-        for (int i = 0; i < n; i++)
-        {
-            double v = curve.VoltageV[i], c = curve.CurrentA[i];
-            bool ok = false;
-            if (!double.IsFinite(v) || !double.IsFinite(c)) notFinite++;
-            else if (v == 0) zeroBias++;
-            else if (curve.ImportMask.Length == n && curve.ImportMask[i]) flagged++;
-            else if (compliance is double comp && Math.Abs(c) >= 0.999 * comp) atCompliance++;
-            else if (c == 0 || Math.Sign(v) != Math.Sign(c)) wrongSign++;
-            else if (Math.Abs(c) <= 3.0 * floor) belowFloor++;
-            else ok = true;
-            used[i] = ok;
-            if (ok) usedCount++;
-        }
-        int masked = n - usedCount;
-        var maskNotes = new List<string>();
-        if (wrongSign > 0) maskNotes.Add($"{wrongSign} with zero current or current of the wrong sign for its bias (offset or noise)");
-        if (belowFloor > 0) maskNotes.Add($"{belowFloor} at or below 3x the noise floor");
-        if (atCompliance > 0) maskNotes.Add($"{atCompliance} at the current compliance");
-        if (flagged > 0) maskNotes.Add($"{flagged} flagged by the importer");
-        if (notFinite > 0) maskNotes.Add($"{notFinite} not finite");
+        var data = PreparedCurve.From(curve, options);
+        int n = curve.Count, usedCount = data.VoltageV.Length, masked = n - usedCount;
+        bool[] used = data.Used;
+        var maskNotes = data.MaskNotes;
+        double[] vUsed = data.VoltageV, yUsed = data.LogAbsCurrent, invSigma = data.InverseSigma;
+        double maxAbsV = data.MaxAbsVoltageV;
+        double? estimatedNoise = data.EstimatedRelativeNoise;
         if (usedCount < nFree + 2)
         {
             return FitResult.Failed(curve.SourcePath, modelName,
                 $"only {usedCount} of {n} points are usable (non-zero bias with current of the same sign, above the noise floor, " +
                 $"below compliance); at least {nFree + 2} are needed for {nFree} free parameters") with
             { Lot = curve.Lot, Wafer = curve.Wafer, DieX = curve.DieX, DieY = curve.DieY };
-        }
-        var vUsed = new double[usedCount];
-        var yUsed = new double[usedCount];
-        double maxAbsV = 0;
-        for (int i = 0, u = 0; i < n; i++)
-        {
-            if (!used[i]) continue;
-            vUsed[u] = curve.VoltageV[i];
-            yUsed[u] = Math.Log(Math.Abs(curve.CurrentA[i]));
-            maxAbsV = Math.Max(maxAbsV, Math.Abs(vUsed[u]));
-            u++;
-        }
-        double? estimatedNoise = options.RelativeNoise is null ? NoiseEstimator.RelativeNoise(vUsed, yUsed) : null;
-        double relative = options.RelativeNoise ?? estimatedNoise ?? 1.0;
-        var invSigma = new double[usedCount];
-        for (int u = 0; u < usedCount; u++)
-        {
-            double c = Math.Exp(yUsed[u]);
-            invSigma[u] = 1.0 / Math.Sqrt(relative * relative + (floor / c) * (floor / c));
         }
 
         // ---- data-driven start and multi-start LM -------------------------------------------------------
@@ -374,6 +336,7 @@ public static class JunctionFitter
             CorrelationRowMajor = corr.ToImmutable(),
             Curve = new CurveSnapshot(curve.VoltageV, curve.CurrentA, ImmutableArray.Create(modelCurrent),
                 ImmutableArray.Create(used), ImmutableArray.Create(logResidual)),
+            ModelValidity = model.Barrier.ValidityRange,
             TransitionVoltageV = transition.PositiveV,
             TransitionVoltageNegativeV = transition.NegativeV,
             Lot = curve.Lot,

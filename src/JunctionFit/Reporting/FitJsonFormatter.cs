@@ -93,6 +93,7 @@ public static class FitJsonFormatter
         w.WriteEndArray();
         w.WriteEndObject();
 
+        WriteStringOrNull(w, "model_validity", result.ModelValidity);
         WriteNumberOrNull(w, "transition_voltage_V", result.TransitionVoltageV);
         WriteNumberOrNull(w, "transition_voltage_negative_V", result.TransitionVoltageNegativeV);
         if (result.ModelComparison.Length > 0)

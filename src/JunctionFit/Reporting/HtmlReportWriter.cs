@@ -297,6 +297,14 @@ public static class HtmlReportWriter
         AppendQuality(sb, r);
         sb.Append("</div>\n");
         AppendCorrelation(sb, r);
+        if (r.ModelValidity is { Length: > 0 } validity)
+        {
+            sb.Append("<p class=\"validity\"><strong>Model validity:</strong> ").Append(E(validity))
+              .Append(r.Warnings.Any(w => w.Contains("range", StringComparison.OrdinalIgnoreCase) || w.Contains("valid", StringComparison.OrdinalIgnoreCase))
+                  ? " — the fitted range is outside it in places; see the warnings."
+                  : " — the fitted range is inside it.")
+              .Append("</p>\n");
+        }
         if (r.Warnings.Length > 0)
         {
             sb.Append("<h3>Warnings</h3>\n<ul class=\"warnings\">\n");

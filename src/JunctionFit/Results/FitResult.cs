@@ -90,6 +90,9 @@ public sealed record FitResult
     /// <summary>Transition voltage (minimum of ln(I/V²) against 1/V) for positive bias, in volt, if found.</summary>
     public double? TransitionVoltageV { get; init; }
 
+    /// <summary>Where the model is valid, in words (from the model), for reports.</summary>
+    public string? ModelValidity { get; init; }
+
     /// <summary>Transition voltage for negative bias (a negative number), in volt, if found.</summary>
     public double? TransitionVoltageNegativeV { get; init; }
 

@@ -1,0 +1,660 @@
+using System.Buffers;
+using System.Collections.Immutable;
+using System.Data;
+using System.Data.Common;
+using System.Globalization;
+using System.Text;
+using System.Text.Json;
+using JunctionFit.Reporting;
+using JunctionFit.Results;
+
+namespace JunctionFit.Storage;
+
+/// <summary>An open connection and whether returning it closes it.</summary>
+internal readonly struct ConnectionLease(DbConnection connection, bool owned) : IDisposable
+{
+    /// <summary>The open connection.</summary>
+    public DbConnection Connection { get; } = connection;
+
+    /// <summary>Closes the connection when the lease owns it.</summary>
+    public void Dispose()
+    {
+        if (owned) Connection.Dispose();
+    }
+}
+
+/// <summary>Column kinds, mapped to engine types by each store.</summary>
+internal enum ColumnKind
+{
+    Text,
+    Int,
+    Real,
+    Bool,
+    Time,
+}
+
+/// <summary>
+/// The engine-neutral part of the results database: the SQL (identical on SQLite and PostgreSQL apart from the DDL),
+/// migrations, chunked upserts, reads and checks. Every statement takes its values as parameters; the only text put
+/// into SQL is this class's own column names. Subclasses say how to connect, how to lock, which errors are transient,
+/// and how times are stored.
+/// </summary>
+internal abstract class SqlResultStore : IResultStore
+{
+    /// <summary>Number of file hashes per <c>IN (…)</c> list in <see cref="ExistingKeys"/>.</summary>
+    private const int KeyQueryChunk = 200;
+
+    private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
+
+    /// <summary>The columns of <c>fit_result</c> written per result, in parameter order (the key's three come first).</summary>
+    private static readonly (string Name, ColumnKind Kind)[] ResultColumns =
+    [
+        ("file_sha256", ColumnKind.Text), ("model", ColumnKind.Text), ("options_hash", ColumnKind.Text),
+        ("options_text", ColumnKind.Text), ("file_path", ColumnKind.Text), ("lot", ColumnKind.Text), ("wafer", ColumnKind.Text),
+        ("die_x", ColumnKind.Int), ("die_y", ColumnKind.Int), ("status", ColumnKind.Text), ("error", ColumnKind.Text),
+        ("points_used", ColumnKind.Int), ("points_masked", ColumnKind.Int), ("iterations", ColumnKind.Int),
+        ("rss", ColumnKind.Real), ("reduced_chi2", ColumnKind.Real), ("converged", ColumnKind.Bool),
+        ("stop_reason", ColumnKind.Text), ("covariance_scaling", ColumnKind.Text), ("interval_method", ColumnKind.Text),
+        ("transition_voltage_v", ColumnKind.Real), ("warnings_json", ColumnKind.Text), ("correlation_json", ColumnKind.Text),
+        ("parameter_count", ColumnKind.Int), ("run_id", ColumnKind.Text), ("run_started_utc", ColumnKind.Time),
+        ("tool_version", ColumnKind.Text), ("host", ColumnKind.Text), ("stored_utc", ColumnKind.Time),
+    ];
+
+    private static readonly (string Name, ColumnKind Kind)[] ParameterColumns =
+    [
+        ("ordinal", ColumnKind.Int), ("param_key", ColumnKind.Text), ("symbol", ColumnKind.Text), ("unit", ColumnKind.Text),
+        ("value", ColumnKind.Real), ("stderr", ColumnKind.Real), ("lower95", ColumnKind.Real), ("upper95", ColumnKind.Real),
+        ("is_fixed", ColumnKind.Bool),
+    ];
+
+    private static readonly string InsertColumnList = string.Join(", ", ResultColumns.Select(c => c.Name));
+    private static readonly string InsertValueList = string.Join(", ", ResultColumns.Select(c => "@" + c.Name));
+
+    private static readonly string UpsertSql =
+        $"INSERT INTO fit_result ({InsertColumnList}) VALUES ({InsertValueList}) " +
+        "ON CONFLICT (file_sha256, model, options_hash) DO UPDATE SET " +
+        string.Join(", ", ResultColumns.Skip(3).Select(c => $"{c.Name} = excluded.{c.Name}")) +
+        " RETURNING id";
+
+    private static readonly string InsertIfAbsentSql =
+        $"INSERT INTO fit_result ({InsertColumnList}) VALUES ({InsertValueList}) " +
+        "ON CONFLICT (file_sha256, model, options_hash) DO NOTHING RETURNING id";
+
+    private const string SelectColumns =
+        "r.id, r.file_sha256, r.model, r.options_hash, r.options_text, r.file_path, r.lot, r.wafer, r.die_x, r.die_y, " +
+        "r.status, r.error, r.points_used, r.points_masked, r.iterations, r.rss, r.reduced_chi2, r.converged, r.stop_reason, " +
+        "r.covariance_scaling, r.interval_method, r.transition_voltage_v, r.warnings_json, r.correlation_json, r.parameter_count, " +
+        "r.run_id, r.run_started_utc, r.tool_version, r.host, r.stored_utc, " +
+        "p.ordinal, p.param_key, p.symbol, p.unit, p.value, p.stderr, p.lower95, p.upper95, p.is_fixed";
+
+    private bool _disposed;
+
+    /// <summary>Creates the store (not yet migrated).</summary>
+    /// <param name="options">Timeouts and retries.</param>
+    /// <param name="description">Where the database is, without a password.</param>
+    protected SqlResultStore(ResultStoreOptions options, string description)
+    {
+        Options = options;
+        Description = description;
+    }
+
+    /// <inheritdoc />
+    public abstract ResultStoreKind Kind { get; }
+
+    /// <inheritdoc />
+    public string Description { get; }
+
+    /// <inheritdoc />
+    public int SchemaVersion { get; private set; }
+
+    /// <summary>Timeouts and retries.</summary>
+    protected ResultStoreOptions Options { get; }
+
+    /// <summary>Text appended to a text expression in ORDER BY so that both engines sort by code point.</summary>
+    protected abstract string BinaryCollation { get; }
+
+    /// <summary>An open connection for one operation.</summary>
+    protected abstract ConnectionLease Lease();
+
+    /// <summary>Begins a transaction that holds the write lock from its start (so two writers queue rather than deadlock).</summary>
+    protected abstract DbTransaction BeginWrite(DbConnection connection);
+
+    /// <summary>Takes the lock that serialises migrations, inside <paramref name="transaction"/>.</summary>
+    protected abstract void LockForMigration(DbConnection connection, DbTransaction transaction);
+
+    /// <summary>True when <paramref name="exception"/> is worth retrying the transaction for (lock, deadlock, lost connection).</summary>
+    protected abstract bool IsTransient(Exception exception);
+
+    /// <summary>The DDL of a migration for this engine.</summary>
+    protected abstract IReadOnlyList<string> MigrationSql(Migration migration);
+
+    /// <summary>The parameter type and value for a column kind.</summary>
+    protected abstract DbType ParameterType(ColumnKind kind);
+
+    /// <summary>A time as a parameter value.</summary>
+    protected abstract object TimeValue(DateTimeOffset time);
+
+    /// <summary>A time read from a column.</summary>
+    protected abstract DateTimeOffset ReadTime(DbDataReader reader, int ordinal);
+
+    /// <summary>Engine-specific checks (SQLite's integrity check); adds problems in words.</summary>
+    protected virtual void EngineChecks(DbConnection connection, List<string> problems)
+    {
+    }
+
+    /// <summary>Brings the schema to <see cref="Migrations.Latest"/> (see <see cref="Migrations"/>).</summary>
+    /// <exception cref="ResultStoreException">The schema is newer than this program, or a step failed.</exception>
+    protected void Migrate()
+    {
+        SchemaVersion = InWriteTransaction("migrating the schema", (connection, transaction) =>
+        {
+            LockForMigration(connection, transaction);
+            Execute(connection, transaction, Migrations.CreateVersionTable);
+            int current;
+            using (var cmd = Command(connection, transaction, "SELECT COALESCE(MAX(version), 0) FROM schema_version"))
+            {
+                current = Convert.ToInt32(cmd.ExecuteScalar(), Inv);
+            }
+            if (current > Migrations.Latest)
+            {
+                throw new ResultStoreException(string.Create(Inv,
+                    $"{Description}: the database has schema version {current}, newer than this program's {Migrations.Latest}; use a newer junctionfit"));
+            }
+            foreach (var step in Migrations.All)
+            {
+                if (step.Version <= current) continue;
+                foreach (string sql in MigrationSql(step)) Execute(connection, transaction, sql);
+                using var record = Command(connection, transaction,
+                    "INSERT INTO schema_version (version, applied_utc, description) VALUES (@version, @applied, @description)");
+                AddParameter(record, "@version", ColumnKind.Int, step.Version);
+                AddParameter(record, "@applied", ColumnKind.Text, DateTimeOffset.UtcNow.ToString("O", Inv));
+                AddParameter(record, "@description", ColumnKind.Text, step.Description);
+                record.ExecuteNonQuery();
+                current = step.Version;
+            }
+            return current;
+        });
+    }
+
+    /// <inheritdoc />
+    public bool Contains(ResultKey key)
+    {
+        CheckKey(key);
+        return Read("looking up a result", connection =>
+        {
+            using var cmd = Command(connection, null,
+                "SELECT 1 FROM fit_result WHERE file_sha256 = @h AND model = @m AND options_hash = @o");
+            AddParameter(cmd, "@h", ColumnKind.Text, key.FileSha256);
+            AddParameter(cmd, "@m", ColumnKind.Text, key.Model);
+            AddParameter(cmd, "@o", ColumnKind.Text, key.OptionsHash);
+            return cmd.ExecuteScalar() is not null;
+        });
+    }
+
+    /// <inheritdoc />
+    public IReadOnlySet<ResultKey> ExistingKeys(IEnumerable<ResultKey> keys)
+    {
+        ArgumentNullException.ThrowIfNull(keys);
+        var wanted = new HashSet<ResultKey>();
+        foreach (var k in keys)
+        {
+            CheckKey(k);
+            wanted.Add(k);
+        }
+        var found = new HashSet<ResultKey>();
+        if (wanted.Count == 0) return found;
+        var hashes = wanted.Select(k => k.FileSha256).Distinct(StringComparer.Ordinal).ToList();
+        return Read("looking up stored results", connection =>
+        {
+            for (int start = 0; start < hashes.Count; start += KeyQueryChunk)
+            {
+                int n = Math.Min(KeyQueryChunk, hashes.Count - start);
+                var sql = new StringBuilder("SELECT file_sha256, model, options_hash FROM fit_result WHERE file_sha256 IN (");
+                for (int i = 0; i < n; i++) sql.Append(i == 0 ? "" : ", ").Append("@h").Append(i.ToString(Inv));
+                sql.Append(')');
+                using var cmd = Command(connection, null, sql.ToString());
+                for (int i = 0; i < n; i++) AddParameter(cmd, "@h" + i.ToString(Inv), ColumnKind.Text, hashes[start + i]);
+                using var reader = cmd.ExecuteReader();
+                while (reader.Read())
+                {
+                    var k = new ResultKey(reader.GetString(0), reader.GetString(1), reader.GetString(2));
+                    if (wanted.Contains(k)) found.Add(k);
+                }
+            }
+            return found;
+        });
+    }
+
+    /// <inheritdoc />
+    public int StoreBatch(IReadOnlyList<StoredResult> results, bool replaceExisting = true)
+    {
+        ArgumentNullException.ThrowIfNull(results);
+        ObjectDisposedException.ThrowIf(_disposed, this);
+        // Last one wins per key; a fixed order (by key) makes concurrent writers take row locks in the same order.
+        var byKey = new Dictionary<ResultKey, StoredResult>(results.Count);
+        foreach (var r in results)
+        {
+            ArgumentNullException.ThrowIfNull(r, nameof(results));
+            byKey[r.Key] = r;
+        }
+        if (byKey.Count == 0) return 0;
+        var ordered = byKey.Values
+            .OrderBy(r => r.Key.FileSha256, StringComparer.Ordinal)
+            .ThenBy(r => r.Key.Model, StringComparer.Ordinal)
+            .ThenBy(r => r.Key.OptionsHash, StringComparer.Ordinal)
+            .ToList();
+        return InWriteTransaction("storing results", (connection, transaction) => WriteChunk(connection, transaction, ordered, replaceExisting));
+    }
+
+    /// <inheritdoc />
+    public IReadOnlyList<StoredResult> Query(string? lot = null, string? wafer = null, string? model = null, string? runId = null)
+    {
+        var where = new List<string>();
+        var values = new List<(string Name, string Value)>();
+        void Filter(string column, string name, string? value)
+        {
+            if (value is null) return;
+            where.Add($"r.{column} = {name}");
+            values.Add((name, value));
+        }
+        Filter("lot", "@lot", lot);
+        Filter("wafer", "@wafer", wafer);
+        Filter("model", "@model", model);
+        Filter("run_id", "@run", runId);
+        string c = BinaryCollation;
+        string sql = $"SELECT {SelectColumns} FROM fit_result r LEFT JOIN fit_parameter p ON p.result_id = r.id" +
+            (where.Count > 0 ? " WHERE " + string.Join(" AND ", where) : "") +
+            $" ORDER BY COALESCE(r.lot, ''){c}, COALESCE(r.wafer, ''){c}, r.file_path{c}, r.file_sha256{c}, r.model{c}, r.options_hash{c}, r.id, p.ordinal";
+        return Read("reading results", connection =>
+        {
+            using var cmd = Command(connection, null, sql);
+            foreach (var (name, value) in values) AddParameter(cmd, name, ColumnKind.Text, value);
+            using var reader = cmd.ExecuteReader();
+            return ReadRows(reader);
+        });
+    }
+
+    /// <inheritdoc />
+    public long Count() => Read("counting results", connection =>
+    {
+        using var cmd = Command(connection, null, "SELECT COUNT(*) FROM fit_result");
+        return Convert.ToInt64(cmd.ExecuteScalar(), Inv);
+    });
+
+    /// <inheritdoc />
+    public IReadOnlyList<string> CheckConsistency() => Read("checking the database", connection =>
+    {
+        var problems = new List<string>();
+        EngineChecks(connection, problems);
+        using (var cmd = Command(connection, null, "SELECT COALESCE(MAX(version), 0) FROM schema_version"))
+        {
+            int version = Convert.ToInt32(cmd.ExecuteScalar(), Inv);
+            if (version != Migrations.Latest) problems.Add(string.Create(Inv, $"schema version is {version}, expected {Migrations.Latest}"));
+        }
+        using (var cmd = Command(connection, null,
+            "SELECT r.file_path, r.parameter_count, COUNT(p.result_id) FROM fit_result r LEFT JOIN fit_parameter p ON p.result_id = r.id " +
+            "GROUP BY r.id, r.file_path, r.parameter_count HAVING COUNT(p.result_id) <> r.parameter_count"))
+        using (var reader = cmd.ExecuteReader())
+        {
+            while (reader.Read())
+            {
+                problems.Add(string.Create(Inv,
+                    $"result for '{reader.GetString(0)}' has {reader.GetInt64(2)} parameter rows, stored with {reader.GetInt32(1)}"));
+            }
+        }
+        using (var cmd = Command(connection, null,
+            "SELECT file_sha256, model, options_hash, COUNT(*) FROM fit_result GROUP BY file_sha256, model, options_hash HAVING COUNT(*) > 1"))
+        using (var reader = cmd.ExecuteReader())
+        {
+            while (reader.Read())
+            {
+                problems.Add(string.Create(Inv, $"key {reader.GetString(0)}/{reader.GetString(1)}/{reader.GetString(2)} occurs {reader.GetInt64(3)} times"));
+            }
+        }
+        using (var cmd = Command(connection, null,
+            "SELECT COUNT(*) FROM fit_parameter p WHERE NOT EXISTS (SELECT 1 FROM fit_result r WHERE r.id = p.result_id)"))
+        {
+            long orphans = Convert.ToInt64(cmd.ExecuteScalar(), Inv);
+            if (orphans > 0) problems.Add(string.Create(Inv, $"{orphans} parameter rows belong to no result"));
+        }
+        return (IReadOnlyList<string>)problems;
+    });
+
+    /// <summary>Releases the connection or the connection pool.</summary>
+    public void Dispose()
+    {
+        if (_disposed) return;
+        _disposed = true;
+        Dispose(true);
+        GC.SuppressFinalize(this);
+    }
+
+    /// <summary>Releases engine resources.</summary>
+    /// <param name="disposing">True from <see cref="Dispose()"/>.</param>
+    protected abstract void Dispose(bool disposing);
+
+    /// <summary>A command on <paramref name="connection"/> in <paramref name="transaction"/> (which may be null).</summary>
+    protected static DbCommand Command(DbConnection connection, DbTransaction? transaction, string sql)
+    {
+        var cmd = connection.CreateCommand();
+        cmd.Transaction = transaction;
+        // CA2100: every caller passes SQL built from this class's constants; values go in as parameters.
+#pragma warning disable CA2100
+        cmd.CommandText = sql;
+#pragma warning restore CA2100
+        return cmd;
+    }
+
+    /// <summary>Runs one statement without results.</summary>
+    protected static void Execute(DbConnection connection, DbTransaction? transaction, string sql)
+    {
+        using var cmd = Command(connection, transaction, sql);
+        cmd.ExecuteNonQuery();
+    }
+
+    /// <summary>Adds a typed parameter (null becomes SQL NULL).</summary>
+    protected DbParameter AddParameter(DbCommand command, string name, ColumnKind kind, object? value)
+    {
+        var p = command.CreateParameter();
+        p.ParameterName = name;
+        p.DbType = ParameterType(kind);
+        p.Value = value ?? DBNull.Value;
+        command.Parameters.Add(p);
+        return p;
+    }
+
+    private int WriteChunk(DbConnection connection, DbTransaction transaction, List<StoredResult> ordered, bool replaceExisting)
+    {
+        using var upsert = Command(connection, transaction, replaceExisting ? UpsertSql : InsertIfAbsentSql);
+        var p = new DbParameter[ResultColumns.Length];
+        for (int i = 0; i < ResultColumns.Length; i++) p[i] = AddParameter(upsert, "@" + ResultColumns[i].Name, ResultColumns[i].Kind, null);
+        var children = new Dictionary<int, (DbCommand Command, DbParameter Id, DbParameter[] Values)>();
+        try
+        {
+            var storedUtc = DateTimeOffset.UtcNow;
+            int written = 0;
+            foreach (var row in ordered)
+            {
+                var r = row.Result;
+                var q = r.Quality;
+                object?[] v =
+                [
+                    row.Key.FileSha256, row.Key.Model, row.Key.OptionsHash, row.OptionsText, r.SourcePath, r.Lot, r.Wafer,
+                    r.DieX, r.DieY, FitJsonFormatter.StatusText(r.Status), r.Error,
+                    q?.PointsUsed, q?.PointsMasked, q?.Iterations, Finite(q?.ResidualSumOfSquares), Finite(q?.ReducedChiSquare), q?.Converged,
+                    q?.StopReason, q?.CovarianceScaling, q?.IntervalMethod,
+                    Finite(r.TransitionVoltageV), WarningsJson(r.Warnings), CorrelationJson(r), r.Parameters.Length,
+                    row.Run.RunId, TimeValue(row.Run.StartedUtc), row.Run.ToolVersion, row.Run.Host, TimeValue(storedUtc),
+                ];
+                for (int i = 0; i < v.Length; i++) p[i].Value = v[i] ?? DBNull.Value;
+                object? id = upsert.ExecuteScalar();
+                if (id is null || id is DBNull) continue;
+                written++;
+                int n = r.Parameters.Length;
+                if (!children.TryGetValue(n, out var child))
+                {
+                    child = ChildCommand(connection, transaction, n);
+                    children.Add(n, child);
+                }
+                child.Id.Value = Convert.ToInt64(id, Inv);
+                int f = 0;
+                for (int j = 0; j < n; j++)
+                {
+                    var e = r.Parameters[j];
+                    child.Values[f++].Value = j;
+                    child.Values[f++].Value = e.Key;
+                    child.Values[f++].Value = e.Symbol;
+                    child.Values[f++].Value = e.Unit;
+                    child.Values[f++].Value = Finite(e.Value) ?? (object)DBNull.Value;
+                    child.Values[f++].Value = Finite(e.StandardError) ?? (object)DBNull.Value;
+                    child.Values[f++].Value = Finite(e.Lower95) ?? (object)DBNull.Value;
+                    child.Values[f++].Value = Finite(e.Upper95) ?? (object)DBNull.Value;
+                    child.Values[f++].Value = e.IsFixed;
+                }
+                child.Command.ExecuteNonQuery();
+            }
+            return written;
+        }
+        finally
+        {
+            foreach (var c in children.Values) c.Command.Dispose();
+        }
+    }
+
+    /// <summary>"Delete this result's parameter rows, insert <paramref name="count"/> new ones" as one command.</summary>
+    private (DbCommand, DbParameter, DbParameter[]) ChildCommand(DbConnection connection, DbTransaction transaction, int count)
+    {
+        var sql = new StringBuilder("DELETE FROM fit_parameter WHERE result_id = @rid");
+        if (count > 0)
+        {
+            sql.Append("; INSERT INTO fit_parameter (result_id, ")
+               .Append(string.Join(", ", ParameterColumns.Select(c => c.Name)))
+               .Append(") VALUES ");
+            for (int j = 0; j < count; j++)
+            {
+                sql.Append(j == 0 ? "(@rid" : ", (@rid");
+                foreach (var c in ParameterColumns) sql.Append(", @").Append(c.Name).Append(j.ToString(Inv));
+                sql.Append(')');
+            }
+        }
+        var cmd = Command(connection, transaction, sql.ToString());
+        var id = AddParameter(cmd, "@rid", ColumnKind.Int, null);
+        id.DbType = DbType.Int64;
+        var values = new DbParameter[count * ParameterColumns.Length];
+        int f = 0;
+        for (int j = 0; j < count; j++)
+        {
+            foreach (var c in ParameterColumns) values[f++] = AddParameter(cmd, "@" + c.Name + j.ToString(Inv), c.Kind, null);
+        }
+        return (cmd, id, values);
+    }
+
+    private List<StoredResult> ReadRows(DbDataReader reader)
+    {
+        var rows = new List<StoredResult>();
+        long currentId = long.MinValue;
+        DbDataReaderRow? pending = null;
+        while (reader.Read())
+        {
+            long id = reader.GetInt64(0);
+            if (id != currentId)
+            {
+                if (pending is not null) rows.Add(pending.Build());
+                pending = new DbDataReaderRow(this, reader);
+                currentId = id;
+            }
+            if (!reader.IsDBNull(30)) pending!.AddParameter(reader);
+        }
+        if (pending is not null) rows.Add(pending.Build());
+        return rows;
+    }
+
+    /// <summary>One result being read: its own columns, then its parameter rows.</summary>
+    private sealed class DbDataReaderRow
+    {
+        private readonly ResultKey _key;
+        private readonly string _optionsText;
+        private readonly RunInfo _run;
+        private readonly DateTimeOffset _storedUtc;
+        private readonly FitResult _result;
+        private readonly ImmutableArray<ParameterEstimate>.Builder _parameters;
+
+        public DbDataReaderRow(SqlResultStore store, DbDataReader r)
+        {
+            _key = new ResultKey(r.GetString(1), r.GetString(2), r.GetString(3));
+            _optionsText = r.GetString(4);
+            FitQuality? quality = r.IsDBNull(12) ? null : new FitQuality(
+                r.GetInt32(12), IntOr(r, 13) ?? 0, IntOr(r, 14) ?? 0, DoubleOr(r, 15) ?? double.NaN, DoubleOr(r, 16),
+                !r.IsDBNull(17) && r.GetBoolean(17), TextOr(r, 18) ?? "", TextOr(r, 19) ?? "", TextOr(r, 20) ?? "");
+            var (corrKeys, corr) = ParseCorrelation(r.GetString(23));
+            _result = new FitResult
+            {
+                SourcePath = r.GetString(5),
+                Lot = TextOr(r, 6),
+                Wafer = TextOr(r, 7),
+                DieX = IntOr(r, 8),
+                DieY = IntOr(r, 9),
+                Model = _key.Model,
+                Status = ParseStatus(r.GetString(10)),
+                Error = TextOr(r, 11),
+                Quality = quality,
+                TransitionVoltageV = DoubleOr(r, 21),
+                Warnings = ParseWarnings(r.GetString(22)),
+                CorrelationKeys = corrKeys,
+                CorrelationRowMajor = corr,
+            };
+            _parameters = ImmutableArray.CreateBuilder<ParameterEstimate>(r.GetInt32(24));
+            _run = new RunInfo(r.GetString(25), store.ReadTime(r, 26), r.GetString(27), TextOr(r, 28));
+            _storedUtc = store.ReadTime(r, 29);
+        }
+
+        public void AddParameter(DbDataReader r) => _parameters.Add(new ParameterEstimate(
+            r.GetString(31), r.GetString(32), r.GetString(33), DoubleOr(r, 34) ?? double.NaN,
+            DoubleOr(r, 35), DoubleOr(r, 36), DoubleOr(r, 37), r.GetBoolean(38)));
+
+        public StoredResult Build()
+            => new(_key, _optionsText, _run, _result with { Parameters = _parameters.ToImmutable() }, _storedUtc);
+    }
+
+    private T Read<T>(string what, Func<DbConnection, T> work)
+    {
+        ObjectDisposedException.ThrowIf(_disposed, this);
+        for (int attempt = 0; ; attempt++)
+        {
+            try
+            {
+                using var lease = Lease();
+                return work(lease.Connection);
+            }
+            catch (Exception e) when (e is DbException && IsTransient(e) && attempt < Options.TransientRetries)
+            {
+                Backoff(attempt);
+            }
+            catch (DbException e)
+            {
+                throw Wrap(what, e);
+            }
+        }
+    }
+
+    private T InWriteTransaction<T>(string what, Func<DbConnection, DbTransaction, T> work)
+    {
+        ObjectDisposedException.ThrowIf(_disposed, this);
+        for (int attempt = 0; ; attempt++)
+        {
+            try
+            {
+                using var lease = Lease();
+                using var transaction = BeginWrite(lease.Connection);
+                try
+                {
+                    T value = work(lease.Connection, transaction);
+                    transaction.Commit();
+                    return value;
+                }
+                catch
+                {
+                    TryRollback(transaction);
+                    throw;
+                }
+            }
+            catch (Exception e) when (e is DbException && IsTransient(e) && attempt < Options.TransientRetries)
+            {
+                Backoff(attempt);
+            }
+            catch (DbException e)
+            {
+                throw Wrap(what, e);
+            }
+        }
+    }
+
+    private static void TryRollback(DbTransaction transaction)
+    {
+        try
+        {
+            transaction.Rollback();
+        }
+        catch (Exception e) when (e is DbException or InvalidOperationException)
+        {
+            // The engine already ended the transaction (a lost connection or an error that aborts it): nothing to undo.
+        }
+    }
+
+    private static void Backoff(int attempt)
+        => Thread.Sleep(TimeSpan.FromMilliseconds(Math.Min(2000, 25 * (1 << Math.Min(attempt, 6))) + Random.Shared.Next(25)));
+
+    private ResultStoreException Wrap(string what, DbException e)
+        => new($"{Description}: {what} failed: {ConnectionStrings.Redact(e.Message)}", e);
+
+    private static void CheckKey(ResultKey key)
+    {
+        if (key.Model is null) throw new ArgumentException("the key is empty (default)", nameof(key));
+    }
+
+    private static double? Finite(double? x) => x is double v && !double.IsNaN(v) ? v : null;
+
+    private static string? TextOr(DbDataReader r, int i) => r.IsDBNull(i) ? null : r.GetString(i);
+
+    private static int? IntOr(DbDataReader r, int i) => r.IsDBNull(i) ? null : r.GetInt32(i);
+
+    private static double? DoubleOr(DbDataReader r, int i) => r.IsDBNull(i) ? null : r.GetDouble(i);
+
+    private static FitStatus ParseStatus(string text) => text switch
+    {
+        "ok" => FitStatus.Ok,
+        "poor-fit" => FitStatus.PoorFit,
+        "failed" => FitStatus.Failed,
+        _ => throw new ResultStoreException($"status '{text}' in the database is not ok, poor-fit or failed"),
+    };
+
+    private static string WarningsJson(ImmutableArray<string> warnings)
+    {
+        var buffer = new ArrayBufferWriter<byte>(64);
+        using (var w = new Utf8JsonWriter(buffer))
+        {
+            w.WriteStartArray();
+            foreach (string s in warnings) w.WriteStringValue(s);
+            w.WriteEndArray();
+        }
+        return Encoding.UTF8.GetString(buffer.WrittenSpan);
+    }
+
+    private static ImmutableArray<string> ParseWarnings(string json)
+    {
+        using var doc = JsonDocument.Parse(json);
+        var b = ImmutableArray.CreateBuilder<string>(doc.RootElement.GetArrayLength());
+        foreach (var e in doc.RootElement.EnumerateArray()) b.Add(e.GetString() ?? "");
+        return b.MoveToImmutable();
+    }
+
+    /// <summary><c>{"keys": [...], "matrix": [row-major, null for NaN]}</c>.</summary>
+    private static string CorrelationJson(FitResult r)
+    {
+        var buffer = new ArrayBufferWriter<byte>(128);
+        using (var w = new Utf8JsonWriter(buffer))
+        {
+            w.WriteStartObject();
+            w.WriteStartArray("keys");
+            foreach (string k in r.CorrelationKeys) w.WriteStringValue(k);
+            w.WriteEndArray();
+            w.WriteStartArray("matrix");
+            foreach (double x in r.CorrelationRowMajor)
+            {
+                if (double.IsFinite(x)) w.WriteNumberValue(x); else w.WriteNullValue();
+            }
+            w.WriteEndArray();
+            w.WriteEndObject();
+        }
+        return Encoding.UTF8.GetString(buffer.WrittenSpan);
+    }
+
+    private static (ImmutableArray<string>, ImmutableArray<double>) ParseCorrelation(string json)
+    {
+        using var doc = JsonDocument.Parse(json);
+        var keys = doc.RootElement.GetProperty("keys").EnumerateArray().Select(e => e.GetString() ?? "").ToImmutableArray();
+        var matrix = doc.RootElement.GetProperty("matrix").EnumerateArray()
+            .Select(e => e.ValueKind == JsonValueKind.Number ? e.GetDouble() : double.NaN).ToImmutableArray();
+        return (keys, matrix);
+    }
+}

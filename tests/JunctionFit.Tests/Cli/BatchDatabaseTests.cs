@@ -1,0 +1,107 @@
+using System.Diagnostics;
+using System.Globalization;
+using System.Text;
+using JunctionFit.Physics;
+using JunctionFit.Storage;
+using JunctionFit.Tests.Storage;
+using Xunit;
+
+namespace JunctionFit.Tests.Cli;
+
+/// <summary>
+/// A batch killed with SIGKILL mid-run and run twice more holds each file exactly once, in the database and in
+/// results.csv, and <c>results --db</c> reads them back — on SQLite and on the PostgreSQL test server.
+/// </summary>
+public class BatchDatabaseTests
+{
+    private const int Files = 400;
+
+    private static void MakeFiles(string folder, string lot)
+    {
+        var model = new JunctionCurrentModel(SimmonsRectangularModel.Instance);
+        for (int k = 0; k < Files; k++)
+        {
+            double[] theta = [(1.9 + 0.0005 * k) * PhysicalConstants.JoulePerElectronVolt, 1.5e-9, 1.0, 100e-12];
+            var (v, i) = IvSimulator.Simulate(model, theta, new SimulationSpec(-0.8, 0.8, 81) { RelativeNoise = 0.01, Seed = k + 1 });
+            var sb = new StringBuilder($"# lot: {lot}\n# wafer: W01\n# die: {k % 20},{k / 20}\nVoltage (V),Current (A)\n");
+            for (int p = 0; p < v.Length; p++) sb.Append(v[p].ToString("R", CultureInfo.InvariantCulture)).Append(',').Append(i[p].ToString("R", CultureInfo.InvariantCulture)).Append('\n');
+            string sub = Path.Combine(folder, $"part{k / 100}");
+            Directory.CreateDirectory(sub);
+            File.WriteAllText(Path.Combine(sub, $"die_{k:D4}.csv"), sb.ToString());
+        }
+    }
+
+    private static void KillMidRun(string inputDir, string outDir, string db, Func<long> storedCount)
+    {
+        string tool = Path.Combine(AppContext.BaseDirectory, "junctionfit.dll");
+        var info = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
+        foreach (var a in new[] { tool, "batch", inputDir, "--out", outDir, "--db", db, "--no-plots", "--area", "100", "--jobs", "1" }) info.ArgumentList.Add(a);
+        using var process = Process.Start(info)!;
+        process.ErrorDataReceived += (_, _) => { };
+        process.OutputDataReceived += (_, _) => { };
+        process.BeginErrorReadLine();
+        process.BeginOutputReadLine();
+        var clock = Stopwatch.StartNew(); // a deadline for the poll, not a timed assertion
+        while (!process.HasExited && clock.Elapsed < TimeSpan.FromSeconds(60))
+        {
+            long n = 0;
+            try { n = storedCount(); } catch (Exception e) when (e is ResultStoreException or IOException or InvalidOperationException) { }
+            if (n >= 100) break;
+            Thread.Sleep(20);
+        }
+        if (!process.HasExited) process.Kill(entireProcessTree: true); // SIGKILL on Linux
+        process.WaitForExit();
+    }
+
+    private static void RunTwiceMoreAndCheck(TempFolder dir, string input, string outDir, string db, string lot)
+    {
+        for (int run = 0; run < 2; run++)
+        {
+            var (code, _, err) = CliRunner.Run("batch", input, "--out", outDir, "--db", db, "--no-plots", "--area", "100");
+            Assert.True(code == 0, err);
+        }
+        var lines = File.ReadAllLines(Path.Combine(outDir, "results.csv"));
+        Assert.Equal(Files + 1, lines.Length);
+        Assert.Equal(Files, lines.Skip(1).Select(l => l.Split(',')[0]).Distinct(StringComparer.Ordinal).Count());
+        Assert.False(File.Exists(Path.Combine(outDir, "results.csv.partial")));
+        using (var store = ResultStore.Open(db))
+        {
+            Assert.Equal(Files, store.Query(lot: lot).Count);
+            Assert.Empty(store.CheckConsistency());
+        }
+        var (rc, csv, rerr) = CliRunner.Run("results", "--db", db, "--lot", lot, "--csv");
+        Assert.True(rc == 0, rerr);
+        Assert.Equal(Files + 1, csv.Split('\n', StringSplitOptions.RemoveEmptyEntries).Length);
+        _ = dir;
+    }
+
+    [Fact]
+    public void Batch_KilledMidRunThenRunTwice_SqliteHoldsEachFileOnce()
+    {
+        using var dir = new TempFolder();
+        MakeFiles(dir.File("in"), "KM-E01");
+        string db = dir.File("lab.db");
+        KillMidRun(dir.File("in"), dir.File("out"), db, () =>
+        {
+            if (!File.Exists(db)) return 0;
+            using var s = ResultStore.Open(db);
+            return s.Count();
+        });
+        RunTwiceMoreAndCheck(dir, dir.File("in"), dir.File("out"), db, "KM-E01");
+    }
+
+    [PostgresFact]
+    public void Batch_KilledMidRunThenRunTwice_PostgresHoldsEachFileOnce()
+    {
+        using var dir = new TempFolder();
+        string lot = "KM-P" + Guid.NewGuid().ToString("N")[..8];
+        MakeFiles(dir.File("in"), lot);
+        string db = Environment.GetEnvironmentVariable(PostgresFactAttribute.Variable)!;
+        KillMidRun(dir.File("in"), dir.File("out"), db, () =>
+        {
+            using var s = ResultStore.Open(db);
+            return s.Query(lot: lot).Count;
+        });
+        RunTwiceMoreAndCheck(dir, dir.File("in"), dir.File("out"), db, lot);
+    }
+}

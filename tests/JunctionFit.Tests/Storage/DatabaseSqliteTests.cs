@@ -1,0 +1,138 @@
+using JunctionFit.Storage;
+using JunctionFit.StoreCrashHelper;
+using Microsoft.Data.Sqlite;
+using Xunit;
+
+namespace JunctionFit.Tests.Storage;
+
+/// <summary>The results database on a SQLite file.</summary>
+public sealed class DatabaseSqliteTests : IDisposable
+{
+    private readonly TempFolder _folder = new();
+    private readonly string _db;
+
+    public DatabaseSqliteTests()
+    {
+        _db = _folder.File("lots/junctionfit.db");
+    }
+
+    public void Dispose() => _folder.Dispose();
+
+    private IResultStore Open() => ResultStore.Open(_db);
+
+    [Fact]
+    public void StoreBatch_ThenQuery_RoundTripsEveryField() => DatabaseStoreContract.StoreThenQuery_RoundTripsEveryField(Open);
+
+    [Fact]
+    public void StoreBatch_SameKeyAgain_ReplacesOrKeeps() => DatabaseStoreContract.StoreSameKeyAgain_ReplaceOrKeep(Open);
+
+    [Fact]
+    public void StoreBatch_SameKeyTwiceInOneChunk_LastWins() => DatabaseStoreContract.SameKeyTwiceInOneChunk_LastWins(Open);
+
+    [Fact]
+    public void ExistingKeys_MixOfStoredAndNew_ReturnsStoredSubset() => DatabaseStoreContract.ExistingKeys_ReturnsStoredSubset(Open);
+
+    [Fact]
+    public void Query_WithFilters_FiltersAndOrdersByLotWaferFile() => DatabaseStoreContract.Query_Filters_AndOrdersByLotWaferFile(Open);
+
+    [Fact]
+    public void Open_ExistingDatabase_MigrationsRunOnce() => DatabaseStoreContract.Reopen_MigrationsRunOnce(Open);
+
+    [Fact]
+    public void Open_FromManyThreadsAtOnce_AllSucceed() => DatabaseStoreContract.OpenFromManyThreadsAtOnce_AllSucceed(Open);
+
+    [Fact]
+    public void StoreBatch_TwoThreadsOverlapping_LoseNoRow() => DatabaseStoreContract.TwoThreadsWritingOverlappingChunks_LoseNoRow(Open);
+
+    [Fact]
+    public void StoreBatch_AwkwardTextAndSpecialNumbers_StoredAsGiven() => DatabaseStoreContract.AwkwardTextAndSpecialNumbers_StoredAsGiven(Open);
+
+    [Fact]
+    public void StoreBatch_WriterKilledMidRun_DatabaseConsistentAndSecondRunCompletes()
+        => DatabaseStoreContract.KilledWriter_LeavesWholeChunks_SecondRunCompletes(_db, Open, total: 6000, chunk: 200);
+
+    [Fact]
+    public void StoreBatch_TwoProcessesAtOnce_LoseNoRow() => DatabaseStoreContract.TwoProcessesWritingAtOnce_LoseNoRow(_db, Open);
+
+    [Fact]
+    public void Open_NewFile_IsWalWithSchemaVersionTable()
+    {
+        using (var store = Open())
+        {
+            Assert.Equal(ResultStoreKind.Sqlite, store.Kind);
+            Assert.Equal(_db, store.Description);
+        }
+        using var c = Raw();
+        Assert.Equal("wal", Scalar(c, "PRAGMA journal_mode"));
+        Assert.Equal("1", Scalar(c, "SELECT COUNT(*) FROM schema_version"));
+        Assert.Equal(ResultStore.CurrentSchemaVersion.ToString(System.Globalization.CultureInfo.InvariantCulture), Scalar(c, "SELECT MAX(version) FROM schema_version"));
+    }
+
+    [Fact]
+    public void Open_SchemaNewerThanProgram_ThrowsWithVersions()
+    {
+        using (Open())
+        {
+        }
+        using (var c = Raw())
+        {
+            Scalar(c, "INSERT INTO schema_version (version, applied_utc, description) VALUES (99, '2030-01-01', 'future')");
+        }
+        var e = Assert.Throws<ResultStoreException>(Open);
+        Assert.Contains("99", e.Message, StringComparison.Ordinal);
+        Assert.Contains("newer", e.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void CheckConsistency_ParameterRowMissing_ReportsTheResult()
+    {
+        using (var store = Open())
+        {
+            store.StoreBatch([DemoResults.Row(1, RunInfo.StartNew("1.0")), DemoResults.Row(2, RunInfo.StartNew("1.0"))]);
+            Assert.Empty(store.CheckConsistency());
+        }
+        using (var c = Raw())
+        {
+            Scalar(c, "DELETE FROM fit_parameter WHERE ordinal = 1 AND result_id = (SELECT MIN(id) FROM fit_result)");
+        }
+        using var again = Open();
+        var problem = Assert.Single(again.CheckConsistency());
+        Assert.Contains("parameter rows", problem, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Open_NotADatabase_ThrowsResultStoreException()
+    {
+        Directory.CreateDirectory(Path.GetDirectoryName(_db)!);
+        File.WriteAllText(_db, "Voltage (V),Current (A)\n0.1,1e-9\n");
+        var e = Assert.Throws<ResultStoreException>(Open);
+        Assert.Contains(_db, e.Message, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Open_PathWithSemicolonAndQuote_UsedAsFileName()
+    {
+        string odd = _folder.File("a;b='c'.db");
+        using (var store = ResultStore.Open(odd))
+        {
+            store.StoreBatch([DemoResults.Row(1, RunInfo.StartNew("1.0"))]);
+        }
+        Assert.True(File.Exists(odd));
+        using var again = ResultStore.Open(odd);
+        Assert.Equal(1, again.Count());
+    }
+
+    private SqliteConnection Raw()
+    {
+        var c = new SqliteConnection(new SqliteConnectionStringBuilder { DataSource = _db, Pooling = false }.ConnectionString);
+        c.Open();
+        return c;
+    }
+
+    private static string? Scalar(SqliteConnection c, string sql)
+    {
+        using var cmd = c.CreateCommand();
+        cmd.CommandText = sql;
+        return cmd.ExecuteScalar()?.ToString();
+    }
+}

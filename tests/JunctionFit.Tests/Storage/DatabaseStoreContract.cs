@@ -1,0 +1,313 @@
+using JunctionFit.Reporting;
+using JunctionFit.Results;
+using JunctionFit.Storage;
+using JunctionFit.StoreCrashHelper;
+using Xunit;
+
+namespace JunctionFit.Tests.Storage;
+
+/// <summary>
+/// Behaviour every results store must show, written once and run against SQLite (DatabaseSqliteTests) and PostgreSQL
+/// (DatabasePostgresTests). Each check opens stores through <c>open</c>, which names one empty database.
+/// </summary>
+internal static class DatabaseStoreContract
+{
+    public static void StoreThenQuery_RoundTripsEveryField(Func<IResultStore> open)
+    {
+        var run = RunInfo.StartNew("9.9.9-test");
+        var rows = Enumerable.Range(0, 120).Select(i => DemoResults.Row(i, run)).ToList();
+        using (var store = open())
+        {
+            Assert.Equal(120, store.StoreBatch(rows));
+        }
+        using var reopened = open();
+        var back = reopened.Query();
+        Assert.Equal(120, back.Count);
+        var byKey = back.ToDictionary(r => r.Key);
+        foreach (var row in rows)
+        {
+            var got = byKey[row.Key];
+            // The JSON line covers every field of the result (parameters, quality, correlation, warnings, die, lot).
+            Assert.Equal(FitJsonFormatter.Format(row.Result), FitJsonFormatter.Format(got.Result));
+            Assert.Equal(row.Result.Parameters.ToArray(), got.Result.Parameters.ToArray());
+            Assert.Equal(row.OptionsText, got.OptionsText);
+            Assert.Equal(run.RunId, got.Run.RunId);
+            Assert.Equal(run.ToolVersion, got.Run.ToolVersion);
+            Assert.Equal(run.Host, got.Run.Host);
+            Assert.True(Math.Abs((run.StartedUtc - got.Run.StartedUtc).TotalMilliseconds) < 1, "start time kept to the millisecond");
+            Assert.NotNull(got.StoredUtc);
+        }
+        Assert.Empty(reopened.CheckConsistency());
+    }
+
+    public static void StoreSameKeyAgain_ReplaceOrKeep(Func<IResultStore> open)
+    {
+        using var store = open();
+        var first = RunInfo.StartNew("1.0");
+        var second = RunInfo.StartNew("2.0");
+        store.StoreBatch([DemoResults.Row(5, first), DemoResults.Row(6, first)]);
+
+        Assert.Equal(0, store.StoreBatch([DemoResults.Row(5, second, variant: 1)], replaceExisting: false));
+        Assert.Equal(2.005, Phi(store, 5), 12);
+
+        Assert.Equal(1, store.StoreBatch([DemoResults.Row(5, second, variant: 1)]));
+        Assert.Equal(2.105, Phi(store, 5), 12);
+        Assert.Equal(2, store.Count());
+        var five = store.Query().Single(r => r.Key == DemoResults.Key(5));
+        Assert.Equal("2.0", five.Run.ToolVersion);
+        Assert.Empty(store.CheckConsistency());
+    }
+
+    public static void SameKeyTwiceInOneChunk_LastWins(Func<IResultStore> open)
+    {
+        using var store = open();
+        var run = RunInfo.StartNew("1.0");
+        Assert.Equal(1, store.StoreBatch([DemoResults.Row(7, run), DemoResults.Row(7, run, variant: 2)]));
+        Assert.Equal(1, store.Count());
+        Assert.Equal(2.207, Phi(store, 7), 12);
+    }
+
+    public static void ExistingKeys_ReturnsStoredSubset(Func<IResultStore> open)
+    {
+        using var store = open();
+        var run = RunInfo.StartNew("1.0");
+        store.StoreBatch(Enumerable.Range(0, 500).Where(i => i % 2 == 0).Select(i => DemoResults.Row(i, run)).ToList());
+        var candidates = Enumerable.Range(0, 500).Select(DemoResults.Key).ToList();
+        var otherOptions = new ResultKey(DemoResults.FileSha256(0), "simmons", ResultIdentity.OptionsHash("something else"));
+        var otherModel = new ResultKey(DemoResults.FileSha256(0), "bdr", DemoResults.Key(0).OptionsHash);
+        candidates.Add(otherOptions);
+        candidates.Add(otherModel);
+
+        var existing = store.ExistingKeys(candidates);
+
+        Assert.Equal(250, existing.Count);
+        Assert.All(existing, k => Assert.Contains(k, candidates));
+        Assert.DoesNotContain(otherOptions, existing);
+        Assert.DoesNotContain(otherModel, existing);
+        Assert.True(store.Contains(DemoResults.Key(4)));
+        Assert.False(store.Contains(DemoResults.Key(5)));
+        Assert.False(store.Contains(otherOptions));
+        Assert.Empty(store.ExistingKeys([]));
+    }
+
+    public static void Query_Filters_AndOrdersByLotWaferFile(Func<IResultStore> open)
+    {
+        using var store = open();
+        var run = RunInfo.StartNew("1.0");
+        var other = RunInfo.StartNew("1.0") with { RunId = "other-run" };
+        var rows = new List<StoredResult>();
+        for (int i = 0; i < 30; i++)
+        {
+            var fit = DemoResults.Fit(i);
+            fit = fit with { Lot = i % 3 == 0 ? "KM-A02" : i % 3 == 1 ? "KM-A01" : null, Wafer = i % 2 == 0 ? "W02" : "W01" };
+            rows.Add(StoredResult.Create(fit, DemoResults.FileSha256(i), DemoResults.Options, i < 10 ? other : run));
+        }
+        store.StoreBatch(rows);
+
+        var a01 = store.Query(lot: "KM-A01");
+        Assert.Equal(10, a01.Count);
+        Assert.All(a01, r => Assert.Equal("KM-A01", r.Result.Lot));
+        Assert.Equal(5, store.Query(lot: "KM-A01", wafer: "W01").Count);
+        Assert.Equal(10, store.Query(runId: "other-run").Count);
+        Assert.Empty(store.Query(model: "bdr"));
+        Assert.Empty(store.Query(lot: "KM-Z99"));
+
+        var all = store.Query();
+        var expected = all
+            .OrderBy(r => r.Result.Lot ?? "", StringComparer.Ordinal)
+            .ThenBy(r => r.Result.Wafer ?? "", StringComparer.Ordinal)
+            .ThenBy(r => r.Result.SourcePath, StringComparer.Ordinal)
+            .Select(r => r.Key).ToList();
+        Assert.Equal(expected, all.Select(r => r.Key).ToList());
+    }
+
+    public static void Reopen_MigrationsRunOnce(Func<IResultStore> open)
+    {
+        using (var store = open())
+        {
+            Assert.Equal(ResultStore.CurrentSchemaVersion, store.SchemaVersion);
+            store.StoreBatch([DemoResults.Row(1, RunInfo.StartNew("1.0"))]);
+        }
+        for (int k = 0; k < 3; k++)
+        {
+            using var again = open();
+            Assert.Equal(ResultStore.CurrentSchemaVersion, again.SchemaVersion);
+            Assert.Equal(1, again.Count());
+            Assert.Empty(again.CheckConsistency());
+        }
+    }
+
+    public static void OpenFromManyThreadsAtOnce_AllSucceed(Func<IResultStore> open)
+    {
+        using var go = new Barrier(6);
+        var versions = new int[6];
+        var threads = Enumerable.Range(0, 6).Select(t => new Thread(() =>
+        {
+            go.SignalAndWait();
+            using var s = open();
+            versions[t] = s.SchemaVersion;
+        })).ToList();
+        threads.ForEach(t => t.Start());
+        threads.ForEach(t => t.Join());
+        Assert.All(versions, v => Assert.Equal(ResultStore.CurrentSchemaVersion, v));
+        using var store = open();
+        Assert.Empty(store.CheckConsistency());
+    }
+
+    public static void TwoThreadsWritingOverlappingChunks_LoseNoRow(Func<IResultStore> open)
+    {
+        using (var init = open())
+        {
+        }
+        using var go = new Barrier(2);
+        var errors = new List<Exception>();
+        void Writer(int first, int count)
+        {
+            try
+            {
+                using var s = open();
+                var run = RunInfo.StartNew("1.0");
+                var w = new ChunkedResultWriter(s, chunkSize: 25);
+                go.SignalAndWait();
+                for (int i = first; i < first + count; i++) w.Add(DemoResults.Row(i, run));
+                w.Flush();
+            }
+            catch (Exception e)
+            {
+                lock (errors) errors.Add(e);
+            }
+        }
+        var a = new Thread(() => Writer(0, 600));
+        var b = new Thread(() => Writer(300, 600));
+        a.Start();
+        b.Start();
+        a.Join();
+        b.Join();
+        Assert.Empty(errors);
+        using var store = open();
+        Assert.Equal(900, store.Count());
+        Assert.Equal(900, store.Query().Select(r => r.Key).Distinct().Count());
+        Assert.Empty(store.CheckConsistency());
+    }
+
+    public static void AwkwardTextAndSpecialNumbers_StoredAsGiven(Func<IResultStore> open)
+    {
+        string path = "KM-A01/W01/die 'x'; DROP TABLE fit_result; --\"φ\".csv";
+        var fit = DemoResults.Fit(3) with
+        {
+            SourcePath = path,
+            Lot = "KM-A01'); DELETE FROM fit_parameter; --",
+            Parameters =
+            [
+                new ParameterEstimate("barrier_height_eV", "φ", "eV", 2.0, 0.1, 1.8, double.PositiveInfinity, false),
+                new ParameterEstimate("thickness_nm", "d", "nm", double.NaN, null, double.NegativeInfinity, null, false),
+            ],
+            Warnings = ["line one\nline two", ""],
+        };
+        using (var store = open())
+        {
+            store.StoreBatch([StoredResult.Create(fit, DemoResults.FileSha256(3), DemoResults.Options, RunInfo.StartNew("1.0"))]);
+        }
+        using var again = open();
+        var got = Assert.Single(again.Query());
+        Assert.Equal(path, got.Result.SourcePath);
+        Assert.Equal(fit.Lot, got.Result.Lot);
+        Assert.Equal(fit.Warnings.ToArray(), got.Result.Warnings.ToArray());
+        var phi = got.Result.Find("barrier_height_eV")!;
+        Assert.Equal(double.PositiveInfinity, phi.Upper95);
+        var d = got.Result.Find("thickness_nm")!;
+        Assert.True(double.IsNaN(d.Value), "NaN is stored as NULL and read back as NaN");
+        Assert.Equal(double.NegativeInfinity, d.Lower95);
+        Assert.Null(d.StandardError);
+        Assert.Empty(again.CheckConsistency());
+    }
+
+    /// <summary>
+    /// Kills a writer mid-run (SIGKILL) twice, checking the database after each kill, then lets a third run finish: the
+    /// database is consistent after every kill, holds whole chunks only, and in the end holds every key exactly once.
+    /// </summary>
+    public static void KilledWriter_LeavesWholeChunks_SecondRunCompletes(string db, Func<IResultStore> open, int total, int chunk)
+    {
+        using (var init = open())
+        {
+        }
+        var random = new Random(20250314);
+        for (int round = 0; round < 2; round++)
+        {
+            string diagnosis;
+            using (var p = StoreHelperProcess.Start(db, 0, total, chunk, pauseMs: 25))
+            {
+                var clock = System.Diagnostics.Stopwatch.StartNew();
+                var timeline = new System.Text.StringBuilder();
+                int committed = 0;
+                string? line;
+                while ((line = p.StandardOutput.ReadLine()) is not null)
+                {
+                    timeline.Append(clock.ElapsedMilliseconds).Append(':').Append(line).Append(' ');
+                    if (line.StartsWith("stored ", StringComparison.Ordinal) && ++committed >= 3) break;
+                }
+                if (committed < 3) Assert.Fail("the helper stopped before committing 3 chunks: " + p.StandardError.ReadToEnd());
+                Thread.Sleep(random.Next(0, 40)); // land in a pause or inside a transaction
+                p.Kill(); // SIGKILL on Unix (kill -9): no clean-up code runs in the helper
+                Assert.True(p.WaitForExit(TimeSpan.FromSeconds(30)), "the helper ended after the kill");
+                diagnosis = $"round {round + 1}: killed after {clock.ElapsedMilliseconds} ms, exit code {p.ExitCode}, {timeline}";
+                Assert.True(p.ExitCode == 128 + 9, "the helper died of SIGKILL: " + diagnosis);
+            }
+
+            using var store = open();
+            Assert.Empty(store.CheckConsistency());
+            long n = store.Count();
+            Assert.True(n >= 3 * chunk && n < total, $"after kill {round + 1} a part of the set is stored: {n} of {total} ({diagnosis})");
+            Assert.True(n % chunk == 0, $"whole chunks only: {n} is not a multiple of {chunk}");
+            foreach (var row in store.Query())
+            {
+                Assert.Equal(DemoResults.Fit(IndexOf(row)).Parameters.Length, row.Result.Parameters.Length);
+            }
+        }
+
+        StoreHelperProcess.Run(db, 0, total, chunk);
+
+        using var done = open();
+        Assert.Empty(done.CheckConsistency());
+        Assert.Equal(total, done.Count());
+        var rows = done.Query();
+        Assert.Equal(total, rows.Select(r => r.Key).Distinct().Count());
+        foreach (var row in rows)
+        {
+            var expected = DemoResults.Fit(IndexOf(row));
+            Assert.Equal(FitJsonFormatter.Format(expected), FitJsonFormatter.Format(row.Result));
+        }
+    }
+
+    /// <summary>Two processes storing overlapping ranges at once: every key exactly once.</summary>
+    public static void TwoProcessesWritingAtOnce_LoseNoRow(string db, Func<IResultStore> open)
+    {
+        using (var init = open())
+        {
+        }
+        using var a = StoreHelperProcess.Start(db, 0, 1500, 40);
+        using var b = StoreHelperProcess.Start(db, 700, 1500, 40);
+        var outA = a.StandardOutput.ReadToEndAsync();
+        var outB = b.StandardOutput.ReadToEndAsync();
+        var errA = a.StandardError.ReadToEndAsync();
+        var errB = b.StandardError.ReadToEndAsync();
+        Assert.True(a.WaitForExit(TimeSpan.FromMinutes(3)) && b.WaitForExit(TimeSpan.FromMinutes(3)), "both writers finished");
+        Assert.True(a.ExitCode == 0, "writer A: " + errA.Result);
+        Assert.True(b.ExitCode == 0, "writer B: " + errB.Result);
+        Assert.Contains("done", outA.Result, StringComparison.Ordinal);
+        Assert.Contains("done", outB.Result, StringComparison.Ordinal);
+
+        using var store = open();
+        Assert.Empty(store.CheckConsistency());
+        Assert.Equal(2200, store.Count());
+        Assert.Equal(2200, store.Query().Select(r => r.Key).Distinct().Count());
+    }
+
+    private static readonly Lazy<Dictionary<string, int>> DemoIndex =
+        new(() => Enumerable.Range(0, 7000).ToDictionary(DemoResults.FileSha256, i => i, StringComparer.Ordinal));
+
+    private static int IndexOf(StoredResult row) => DemoIndex.Value[row.Key.FileSha256];
+
+    private static double Phi(IResultStore store, int i)
+        => store.Query().Single(r => r.Key == DemoResults.Key(i)).Result.Find("barrier_height_eV")!.Value;
+}
