@@ -41,7 +41,7 @@ internal static class DemoCommand
             if (parse.GetValue(fitOptions.Area) is null && !parse.GetValue(fitOptions.AreaFromFile))
             {
                 // The demo lots state each die's drawn area; fitting with the area known is how the lab works.
-                plan = new FitPlan(plan.ModelNames, plan.ModelOptions, plan.Parasitics, plan.Options with { FixAreaFromMetadata = true }, plan.TemperatureFromFile);
+                plan = plan.WithOptions(plan.Options with { FixAreaFromMetadata = true });
                 summary = summary.Replace("area free", "area fixed at each file's stated area", StringComparison.Ordinal);
             }
             string outPath = parse.GetValue(outDir) ?? "junctionfit-demo";

@@ -70,6 +70,24 @@ internal sealed class FitOptionSet
         Description = "current compliance in A; points at compliance are masked (default: the file's, if stated)",
     };
 
+    public Option<string> Interval { get; } = new("--interval")
+    {
+        Description = "95 % intervals: wald (default; in transformed parameters), profile (profile likelihood) or bootstrap (residual bootstrap, fixed seed)",
+        DefaultValueFactory = _ => "wald",
+    };
+
+    public Option<int> BootstrapReplicates { get; } = new("--bootstrap-replicates")
+    {
+        Description = "replicates for --interval bootstrap (at least 20)",
+        DefaultValueFactory = _ => 200,
+    };
+
+    public Option<int> Seed { get; } = new("--seed")
+    {
+        Description = "seed of the bootstrap (same seed, same intervals)",
+        DefaultValueFactory = _ => 1,
+    };
+
     public Option<bool> AreaFromFile { get; } = new("--area-from-file")
     {
         Description = "fix the area at each file's stated area (its 'area' metadata) where it states one",
@@ -81,6 +99,9 @@ internal sealed class FitOptionSet
         command.Options.Add(IgnoreFileTemperature);
         command.Options.Add(Permittivity);
         command.Options.Add(AreaFromFile);
+        command.Options.Add(Interval);
+        command.Options.Add(BootstrapReplicates);
+        command.Options.Add(Seed);
         command.Options.Add(Model);
         command.Options.Add(Area);
         command.Options.Add(MassRatio);
@@ -202,7 +223,23 @@ internal sealed class FitOptionSet
             ComplianceA = compliance,
             FixAreaFromMetadata = parse.GetValue(AreaFromFile) && parse.GetValue(Area) is null,
         };
-        return (new FitPlan(names, modelOptions, parasitics, options, fileTemperature), string.Join("; ", summary));
+        var intervals = (parse.GetValue(Interval) ?? "wald").ToLowerInvariant() switch
+        {
+            "wald" => IntervalMethod.Wald,
+            "profile" => IntervalMethod.Profile,
+            "bootstrap" => IntervalMethod.Bootstrap,
+            var other => throw new UsageException($"--interval: unknown method '{other}'; choose wald, profile or bootstrap"),
+        };
+        int replicates = parse.GetValue(BootstrapReplicates);
+        if (replicates < 20) throw new UsageException($"--bootstrap-replicates: {replicates} must be at least 20");
+        if (intervals != IntervalMethod.Wald) summary.Add($"{intervals.ToString().ToLowerInvariant()} intervals");
+        var plan = new FitPlan(names, modelOptions, parasitics, options, fileTemperature)
+        {
+            Intervals = intervals,
+            BootstrapReplicates = replicates,
+            BootstrapSeed = parse.GetValue(Seed),
+        };
+        return (plan, string.Join("; ", summary));
     }
 
     /// <summary>Settings outside <see cref="FitOptions"/> that change a fit, for the results database's identity.</summary>
@@ -213,6 +250,7 @@ internal sealed class FitOptionSet
         yield return new("temperature_K", plan.ModelOptions.TemperatureK?.ToString("R", System.Globalization.CultureInfo.InvariantCulture) ?? "");
         yield return new("temperature_from_file", plan.TemperatureFromFile ? "true" : "false");
         yield return new("relative_permittivity", plan.ModelOptions.RelativePermittivity.ToString("R", System.Globalization.CultureInfo.InvariantCulture));
+        yield return new("intervals", $"{plan.Intervals}:{plan.BootstrapReplicates}:{plan.BootstrapSeed}");
         yield return new("parasitics", $"{plan.Parasitics.SeriesResistance},{plan.Parasitics.LeakageConductance},{plan.Parasitics.VoltageOffset},{plan.Parasitics.CurrentOffset}");
     }
 

@@ -167,8 +167,7 @@ internal static class LotAnalyses
                     return;
                 }
                 var free = plan.Fit(curve);
-                var fixedPlan = new FitPlan(plan.ModelNames, plan.ModelOptions, plan.Parasitics,
-                    plan.Options with { FixedValues = plan.Options.FixedValues.SetItem("thickness_nm", dNm.Value * 1e-9) }, plan.TemperatureFromFile);
+                var fixedPlan = plan.WithOptions(plan.Options with { FixedValues = plan.Options.FixedValues.SetItem("thickness_nm", dNm.Value * 1e-9) });
                 var pinned = fixedPlan.Fit(curve);
                 if (free.Quality is not { } qf || pinned.Quality is not { } qp || free.Status == FitStatus.Failed || pinned.Status == FitStatus.Failed) return;
                 int k = free.Parameters.Count(p => !p.IsFixed);

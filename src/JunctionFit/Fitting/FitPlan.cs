@@ -5,6 +5,19 @@ using JunctionFit.Results;
 
 namespace JunctionFit.Fitting;
 
+/// <summary>How the 95 % intervals of a fit are computed.</summary>
+public enum IntervalMethod
+{
+    /// <summary>Wald intervals in the transformed parameters, mapped back (the default; coverage measured in the tests).</summary>
+    Wald,
+
+    /// <summary>Profile-likelihood intervals (refits with each parameter fixed; slower).</summary>
+    Profile,
+
+    /// <summary>Residual-bootstrap percentile intervals with a fixed seed (slowest).</summary>
+    Bootstrap,
+}
+
 /// <summary>
 /// Everything needed to fit any curve of a run: the model name(s), model options, parasitic elements, the temperature
 /// policy and the fit options. Builds the model per curve when the temperature comes from the file, and caches models
@@ -51,6 +64,15 @@ public sealed class FitPlan
     /// <summary>Whether a curve's stated temperature applies when none is given explicitly.</summary>
     public bool TemperatureFromFile { get; }
 
+    /// <summary>Interval method.</summary>
+    public IntervalMethod Intervals { get; init; } = IntervalMethod.Wald;
+
+    /// <summary>Bootstrap replicates (for <see cref="IntervalMethod.Bootstrap"/>).</summary>
+    public int BootstrapReplicates { get; init => field = Common.Guard.AtLeast(value, 20); } = 200;
+
+    /// <summary>Bootstrap seed (same seed, same intervals).</summary>
+    public int BootstrapSeed { get; init; } = 1;
+
     /// <summary>Name shown for the run (the model, or "auto").</summary>
     public string DisplayName => ModelNames.Count == 1 ? ModelNames[0] : "auto";
 
@@ -71,6 +93,19 @@ public sealed class FitPlan
     public FitResult Fit(IvCurve curve)
     {
         var models = ModelsFor(curve);
-        return models.Count == 1 ? JunctionFitter.Fit(curve, models[0], Options) : ModelSelection.FitBest(curve, models, Options);
+        var fit = models.Count == 1 ? JunctionFitter.Fit(curve, models[0], Options) : ModelSelection.FitBest(curve, models, Options);
+        if (Intervals == IntervalMethod.Wald || fit.Status == FitStatus.Failed) return fit;
+        var model = models.FirstOrDefault(m => m.Barrier.Name == fit.Model) ?? models[0];
+        return Intervals == IntervalMethod.Profile
+            ? ProfileLikelihoodIntervals.Compute(curve, model, Options, fit)
+            : BootstrapIntervals.Compute(curve, model, Options, fit, BootstrapReplicates, BootstrapSeed);
     }
+
+    /// <summary>A copy with other fit options (same models, temperature policy and interval method).</summary>
+    public FitPlan WithOptions(FitOptions options) => new(ModelNames, ModelOptions, Parasitics, options, TemperatureFromFile)
+    {
+        Intervals = Intervals,
+        BootstrapReplicates = BootstrapReplicates,
+        BootstrapSeed = BootstrapSeed,
+    };
 }

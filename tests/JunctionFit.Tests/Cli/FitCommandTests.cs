@@ -143,3 +143,33 @@ public class FitCommandTests
         Assert.Equal("failed", doc.RootElement.GetProperty("status").GetString());
     }
 }
+
+public class FitIntervalOptionTests
+{
+    [Theory]
+    [InlineData("profile", "profile likelihood")]
+    [InlineData("bootstrap", "bootstrap")]
+    public void FitJson_IntervalOption_UsesThatMethodAndCoversTruth(string method, string expectedText)
+    {
+        using var dir = new TempFolder();
+        var (sc, csv, se) = CliRunner.Run("simulate", "--barrier-height", "2.1", "--thickness", "1.6", "--area", "100", "--from", "-1", "--to", "1",
+            "--points", "101", "--noise", "0.01", "--seed", "9");
+        Assert.True(sc == 0, se);
+        string file = dir.File("die.csv");
+        File.WriteAllText(file, csv);
+        var (code, output, err) = CliRunner.Run("fit", file, "--json", "--area", "100", "--interval", method, "--bootstrap-replicates", "60");
+        Assert.True(code == 0, err);
+        using var doc = System.Text.Json.JsonDocument.Parse(output.Trim());
+        Assert.Contains(expectedText, doc.RootElement.GetProperty("fit").GetProperty("interval_method").GetString(), StringComparison.OrdinalIgnoreCase);
+        var phi = doc.RootElement.GetProperty("parameters").GetProperty("barrier_height_eV").GetProperty("ci95");
+        Assert.InRange(2.1, phi[0].GetDouble(), phi[1].GetDouble()); // truth of the simulation
+    }
+
+    [Fact]
+    public void Fit_UnknownIntervalMethod_ExitTwo()
+    {
+        var (code, _, err) = CliRunner.Run("fit", "x.csv", "--interval", "guess");
+        Assert.Equal(2, code);
+        Assert.Contains("--interval", err, StringComparison.Ordinal);
+    }
+}
