@@ -318,13 +318,33 @@ public static class JunctionFitter
         }
         var status = FitStatus.Ok;
         string? error = null;
+        var outOfBounds = new List<string>();
+        for (int k = 0; k < p; k++)
+        {
+            if (Array.IndexOf(freeIndex, k) >= 0 && (thetaHat[k] > defs[k].UpperSi || thetaHat[k] < defs[k].LowerSi))
+            {
+                outOfBounds.Add($"{defs[k].Description} {defs[k].ToDisplay(thetaHat[k]):G4} {defs[k].DisplayUnit}".TrimEnd());
+            }
+        }
         if (!best.Converged)
         {
             status = FitStatus.Failed;
             error = $"the solver did not converge ({best.Reason}); give start values or fix the area";
         }
+        else if (!covOk && nFree > 0)
+        {
+            status = FitStatus.Failed;
+            error = "these data do not determine the free parameters together (singular Jacobian: the curve has fewer independent " +
+                    "features than free parameters); fix the area from the lithography (--area or --area-from-file) or widen the bias range";
+        }
         else
         {
+            if (outOfBounds.Count > 0)
+            {
+                status = FitStatus.PoorFit;
+                warnings.Add($"outside the physical range: {string.Join(", ", outOfBounds)}; the data do not pin these down. " +
+                             "Remedy: fix the area (--area), widen the bias range, or fix the thickness from ellipsometry");
+            }
             double z = RunsTestZ(curve.VoltageV.AsSpan(), best.Residuals.AsSpan(), used);
             if (z < RunsTestCriticalZ)
             {

@@ -173,3 +173,28 @@ public class FitIntervalOptionTests
         Assert.Contains("--interval", err, StringComparison.Ordinal);
     }
 }
+
+public class HelpTextTests
+{
+    [Fact]
+    public void Help_Root_ListsEveryCommandAndExitsZero()
+    {
+        var (code, output, _) = CliRunner.Run("--help");
+        Assert.Equal(0, code);
+        foreach (string command in new[] { "fit", "simulate", "demo", "inspect", "batch", "drift", "thickness", "temperature-series", "results" })
+        {
+            Assert.Contains(command, output, StringComparison.Ordinal);
+        }
+    }
+
+    [Fact]
+    public void Help_Fit_DescribesTheScriptInterface()
+    {
+        var (code, output, _) = CliRunner.Run("fit", "--help");
+        Assert.Equal(0, code);
+        foreach (string option in new[] { "--model", "--area", "--mass-ratio", "--json", "--out", "--interval", "--free", "--fix" })
+        {
+            Assert.Contains(option, output, StringComparison.Ordinal);
+        }
+    }
+}

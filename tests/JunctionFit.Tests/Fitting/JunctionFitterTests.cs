@@ -99,3 +99,38 @@ public class JunctionFitterTests
         Assert.True(z > 2);
     }
 }
+
+public class IdentifiabilityWarningTests
+{
+    private static readonly JunctionFit.Physics.JunctionCurrentModel Model = new(JunctionFit.Physics.SimmonsRectangularModel.Instance);
+
+    [Fact]
+    public void Fit_AreaFreeSweepToSixTenthsOfPhi_WarnsNotIdentifiableWithTheAreaRemedy()
+    {
+        // The solver issue's setting (sweep to ±0.6 φ, 1 % noise) with the area free: φ, d and the area trade off
+        // (|ρ| > 0.99, intervals a factor ~30 wide on the area). The warning must name them and say to fix the area.
+        var curve = JunctionFitterTests.Simulate(2.0, 1.5, 100, 0.01, seed: 31, fromV: -1.2, toV: 1.2);
+        var result = JunctionFitter.Fit(curve, Model, FitOptions.Default);
+        var warning = Assert.Single(result.Warnings, w => w.StartsWith("not identifiable", StringComparison.Ordinal));
+        Assert.Contains("effective area", warning, StringComparison.Ordinal);
+        Assert.Contains("--area", warning, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Fit_AreaFreeVeryNarrowSweep_FailsSayingTheDataDoNotDetermineTheParameters()
+    {
+        // ±0.3 V for φ = 2 eV: J ≈ G₀V(1 + γV²), two features for three parameters — never "ok".
+        var curve = JunctionFitterTests.Simulate(2.0, 1.5, 100, 0.01, seed: 31, fromV: -0.3, toV: 0.3);
+        var result = JunctionFitter.Fit(curve, Model, FitOptions.Default);
+        Assert.NotEqual(FitStatus.Ok, result.Status);
+    }
+
+    [Fact]
+    public void Fit_AreaKnownWideSweep_HasNoIdentifiabilityWarning()
+    {
+        var curve = JunctionFitterTests.Simulate(2.0, 1.5, 100, 0.01, seed: 32, fromV: -1.2, toV: 1.2);
+        var options = FitOptions.Default with { FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", 100e-12) };
+        var result = JunctionFitter.Fit(curve, Model, options);
+        Assert.DoesNotContain(result.Warnings, w => w.StartsWith("not identifiable", StringComparison.Ordinal));
+    }
+}
