@@ -13,7 +13,7 @@ awk 'BEGIN {
   srand(20261202);
   split("KM-A01 KM-A02 KM-A03", lots, " ");
   phi0["KM-A01"] = 2.00; phi0["KM-A02"] = 2.15; phi0["KM-A03"] = 2.00;
-  d0["KM-A01"] = 1.50;  d0["KM-A02"] = 1.50;  d0["KM-A03"] = 1.52;
+  d0["KM-A01"] = 1.50;  d0["KM-A02"] = 1.50;  d0["KM-A03"] = 1.50;
   seed = 1000;
   for (l = 1; l <= 3; l++) for (w = 1; w <= 2; w++) for (x = 0; x <= 4; x++) for (y = 0; y <= 4; y++) {
     r2 = (x - 2) ^ 2 + (y - 2) ^ 2;
@@ -22,7 +22,7 @@ awk 'BEGIN {
     phi = phi0[lot] - 0.006 * r2 + 0.012 * (rand() - 0.5) * 2;
     d = d0[lot] + 0.004 * r2 + 0.006 * (rand() - 0.5) * 2;
     area = (x + y) % 4 == 1 ? 25 : 100;
-    extra = (lot == "KM-A03" && wafer == "W01" && x == 3 && y == 3) ? "leakage-conductance=1.5e-6" : "";
+    extra = (lot == "KM-A03" && wafer == "W01" && x == 3 && y == 3) ? "leakage-conductance=2e-7" : "";
     printf "%s %s %d %d %.4f %.4f %d %d %s\n", lot, wafer, x, y, phi, d, area, ++seed, extra;
   } }' > /tmp/jf-sample-table.txt
 
