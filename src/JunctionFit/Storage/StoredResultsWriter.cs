@@ -92,39 +92,10 @@ public static class StoredResultsWriter
     /// <exception cref="ArgumentNullException">An argument or a row is null.</exception>
     public static void WriteCsv(TextWriter output, IReadOnlyList<StoredResult> rows)
     {
+        // One writer for results.csv everywhere: the rows go through the same formatter as batch's file.
         ArgumentNullException.ThrowIfNull(output);
-        var keys = ParameterKeys(rows);
-        var line = new StringBuilder(512);
-        AppendRecord(line, Columns(keys));
-        output.Write(line);
-        var fields = new List<string>(Leading.Length + 4 * keys.Length + Trailing.Length);
-        foreach (var row in rows)
-        {
-            var r = row.Result;
-            fields.Clear();
-            fields.Add(OneLine(r.SourcePath));
-            fields.Add(OneLine(r.Lot ?? ""));
-            fields.Add(OneLine(r.Wafer ?? ""));
-            fields.Add(Integer(r.DieX));
-            fields.Add(Integer(r.DieY));
-            fields.Add(OneLine(r.Model));
-            fields.Add(FitJsonFormatter.StatusText(r.Status));
-            foreach (string key in keys)
-            {
-                var p = r.Find(key);
-                fields.Add(Number(p?.Value));
-                fields.Add(Number(p?.StandardError));
-                fields.Add(Number(p?.Lower95));
-                fields.Add(Number(p?.Upper95));
-            }
-            fields.Add(Number(r.Quality?.ReducedChiSquare));
-            fields.Add(Number(r.TransitionVoltageV));
-            fields.Add(string.Join(WarningSeparator, r.Warnings.Select(CellWarning)));
-            fields.Add(OneLine(r.Error ?? ""));
-            line.Clear();
-            AppendRecord(line, fields);
-            output.Write(line);
-        }
+        ArgumentNullException.ThrowIfNull(rows);
+        output.Write(ResultsCsv.Format([.. rows.Select(r => Lots.ResultRow.FromFitResult(r.Result))]));
     }
 
     /// <summary>Writes one JSON object per row, each on its own line.</summary>
