@@ -374,6 +374,16 @@ public static class JunctionFitter
                          "structure in the curve, or the noise is not proportional to the current (give --noise and --noise-floor)");
         }
         foreach (var w in model.CheckValidity(maxAbsV, thetaHat)) warnings.Add(w);
+        int areaK = model.AreaIndex;
+        if (Array.IndexOf(freeIndex, areaK) >= 0 && curve.AreaM2 is double stated && stated > 0)
+        {
+            double ratio = thetaHat[areaK] / stated;
+            if (ratio > 10 || ratio < 0.1)
+            {
+                warnings.Add($"the fitted effective area is {ratio:0.###e+0} times the file's stated area of {stated * 1e12:G4} µm²; " +
+                             "with the area free the barrier parameters are poorly pinned — fix the area at the stated value with --area-from-file");
+            }
+        }
         var transition = TransitionVoltage.Compute(curve.VoltageV.AsSpan(), curve.CurrentA.AsSpan());
 
         return new FitResult

@@ -41,9 +41,10 @@ internal readonly record struct DisplayQuantity(
             int d = 1 - (int)Math.Floor(Math.Log10(spread));
             if (d < 0) d = 0;
             if (d > 10) return null;
-            // Very large or very small magnitudes read better in exponent form.
+            // Very large or very small magnitudes read better in exponent form; so does an interval wider than the value
+            // (fixed decimals would print a poorly determined 0.4 as "0").
             double mag = Math.Abs(Value);
-            if (mag >= 1e7 || (mag > 0 && mag < 1e-4)) return null;
+            if (mag >= 1e7 || (mag > 0 && mag < 1e-4) || spread > mag) return null;
             return d;
         }
     }
@@ -81,13 +82,13 @@ internal readonly record struct DisplayQuantity(
         return decimals is int d ? x.ToString("F" + d.ToString(Inv), Inv) : FormatGeneral(x);
     }
 
-    /// <summary>Four significant figures, exponent form outside 10⁻³ … 10⁶.</summary>
+    /// <summary>Four significant figures, exponent form outside 10⁻³ … 10⁴ (G4 would switch on its own at 10⁴).</summary>
     public static string FormatGeneral(double x)
     {
         if (double.IsNaN(x)) return "NaN";
         if (double.IsInfinity(x)) return x > 0 ? "∞" : "−∞";
         double mag = Math.Abs(x);
-        if (mag != 0 && (mag < 1e-3 || mag >= 1e6)) return x.ToString("0.###e+0", Inv);
+        if (mag != 0 && (mag < 1e-3 || mag >= 1e4)) return x.ToString("0.###e+0", Inv);
         return x.ToString("G4", Inv);
     }
 }
