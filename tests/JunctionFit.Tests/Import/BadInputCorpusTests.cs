@@ -164,14 +164,11 @@ public partial class BadInputCorpusTests
         using var dir = new TempFolder();
         string path = Path.Combine(dir.Path, "million.csv");
         WriteMillionRows(path);
-        var sw = System.Diagnostics.Stopwatch.StartNew();
         IvCurve c = IvFileReader.ReadFile(path);
-        sw.Stop();
         Assert.Equal(1_000_000, c.Count);
         Assert.Equal(-1.0, c.VoltageV[0]);
         Assert.Equal(1_000_002, c.SourceLines[^1]);
-        // Loose bound so that a shared 2-core machine does not fail the test; the benchmark measures speed.
-        Assert.True(sw.Elapsed < TimeSpan.FromSeconds(20), $"took {sw.Elapsed}");
+        // Speed is measured by ImportBenchmarks, never asserted here.
     }
 
     internal static void WriteMillionRows(string path)
