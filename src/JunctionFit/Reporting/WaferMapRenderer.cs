@@ -78,6 +78,16 @@ public static class WaferMapRenderer
         var good = placed.Where(d => d.IsGood && d.ValueOf(key) is not null).Select(d => d.ValueOf(key)!.Value * display.Factor).ToList();
         var anyValue = good.Count > 0 ? good : placed.Where(d => d.ValueOf(key) is not null).Select(d => d.ValueOf(key)!.Value * display.Factor).ToList();
         double lo = anyValue.Count > 0 ? anyValue.Min() : 0, hi = anyValue.Count > 0 ? anyValue.Max() : 1;
+        // A robust colour scale: one out-of-family die must not flatten the others into one colour. The scale spans
+        // the good dies within median ± 5 scaled MAD; dies beyond it take the end colour and the subtitle says so.
+        int clipped = 0;
+        if (anyValue.Count >= 5 && LotStatistics.Median(anyValue) is double med && LotStatistics.ScaledMad(anyValue) is double mad && mad > 0)
+        {
+            double rlo = Math.Max(lo, med - 5 * mad), rhi = Math.Min(hi, med + 5 * mad);
+            clipped = anyValue.Count(v => v < rlo || v > rhi);
+            if (clipped > 0 && rhi > rlo) (lo, hi) = (rlo, rhi);
+            else clipped = 0;
+        }
         if (!(hi > lo))
         {
             double pad = Math.Max(Math.Abs(lo) * 0.005, 1e-6);
@@ -88,10 +98,11 @@ public static class WaferMapRenderer
         string title = $"{display.Name} {display.Symbol} — lot {lot ?? "?"}, wafer {wafer ?? "?"}";
         var parts = new List<string>
         {
-            string.Create(Inv, $"{dies.Count} dies: {ok} ok, {poor} poor fit (black outline), {failed} failed (×)"),
+            string.Create(Inv, $"{dies.Count} dies: {ok} ok, {poor} poor (outlined), {failed} failed (×)"),
         };
         if (good.Count > 0) parts.Add($"median {display.Format(LotStatistics.Median(good))}{Unit(display)} over good dies");
         if (unplaced > 0) parts.Add(string.Create(Inv, $"{unplaced} without die coordinates not shown"));
+        if (clipped > 0) parts.Add(string.Create(Inv, $"{clipped} beyond the scale (end colour)"));
         var model = LotPlotSupport.NewModel(title, string.Join("   ·   ", parts));
         model.PlotType = PlotType.Cartesian;
 
