@@ -6,6 +6,14 @@ namespace JunctionFit.Cli;
 /// <summary>Builds the command tree and runs it with one top-level error handler.</summary>
 public static class CliApp
 {
+    /// <summary>An exception message without .NET's " (Parameter 'x')" suffix.</summary>
+    public static string WithoutParameterName(string message)
+    {
+        ArgumentNullException.ThrowIfNull(message);
+        int at = message.LastIndexOf(" (Parameter '", StringComparison.Ordinal);
+        return at > 0 ? message[..at] : message;
+    }
+
     /// <summary>Runs the tool; returns the exit code (see <see cref="ExitCodes"/>).</summary>
     /// <param name="args">Command-line arguments.</param>
     /// <param name="stdout">Standard output.</param>
@@ -27,7 +35,9 @@ public static class CliApp
         var parse = root.Parse(args);
         if (parse.Errors.Count > 0)
         {
-            foreach (var error in parse.Errors) stderr.WriteLine($"junctionfit: {error.Message}");
+            var messages = parse.Errors.Select(e => e.Message).ToList();
+            if (messages.Count > 1) messages.RemoveAll(m => m.StartsWith("Required command was not provided", StringComparison.Ordinal));
+            foreach (string message in messages) stderr.WriteLine($"junctionfit: {message}");
             stderr.WriteLine("junctionfit: run 'junctionfit --help' or 'junctionfit COMMAND --help' for usage");
             return ExitCodes.UsageOrInput;
         }

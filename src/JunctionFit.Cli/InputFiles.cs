@@ -35,6 +35,10 @@ public static class InputFiles
                 found.Sort(StringComparer.Ordinal);
                 files.AddRange(found);
             }
+            else if (path.StartsWith('-'))
+            {
+                throw new UsageException($"unknown option '{path}' (run with --help for the options)");
+            }
             else
             {
                 missing.Add(path);

@@ -99,6 +99,7 @@ internal static class BatchCommand
         string resultsPath = Path.Combine(s.OutDir, ResultsCsv.FileName);
         string partial = resultsPath + ".partial";
         var rows = new List<ResultRow>(files.Count);
+        var plotByIndex = new string?[files.Count];
         var reportCandidates = new List<(int Index, FitResult Result, string? Plot)>();
         var plotNames = new HashSet<string>(StringComparer.Ordinal);
         int unreadable = 0, notOk = 0, done = 0;
@@ -163,6 +164,7 @@ internal static class BatchCommand
                     plot = Path.Combine(plotDir, FitRun.UniquePlotName(result.SourcePath, plotNames));
                     AtomicFile.WriteAllBytes(plot, png);
                 }
+                plotByIndex[index] = plot;
                 var row = ResultRow.FromFitResult(result);
                 writer.Write(ResultsCsv.FormatRow(row, keys));
                 rows.Add(row);
@@ -199,7 +201,7 @@ internal static class BatchCommand
         var (outliers, outlierSection) = LotAnalyses.Outliers(rows);
         foreach (var o in outliers)
         {
-            context.Error.WriteLine($"{o.Row.File}:0: out of family in lot {o.Row.Lot}: {o.Key} = {LotAnalyses.Num(o.Value)} against the lot median {LotAnalyses.Num(o.Median)} (robust z {o.Z:0.0})");
+            context.Error.WriteLine($"junctionfit batch: out of family: {o.Row.File} in lot {o.Row.Lot}: {o.Key} = {LotAnalyses.Num(o.Value)} against the lot median {LotAnalyses.Num(o.Median)} (robust z {o.Z:0.0})");
         }
         var sections = new List<HtmlReportSection> { LotSummarySection(lots), outlierSection };
         if (maps.Count > 0)
@@ -211,6 +213,21 @@ internal static class BatchCommand
             });
         }
         if (s.ExtraSections is not null) sections.InsertRange(0, s.ExtraSections(rows));
+        // Out-of-family dies get a section of their own too: they are the dies an engineer wants to look at.
+        foreach (var o in outliers)
+        {
+            int index = rows.IndexOf(o.Row);
+            if (index >= 0 && !reportCandidates.Any(c => c.Index == index))
+            {
+                var asResult = RowAsResult(o.Row);
+                asResult = asResult with
+                {
+                    Warnings = asResult.Warnings.Add($"out of family in lot {o.Row.Lot}: {o.Key} = {LotAnalyses.Num(o.Value)} against the lot median " +
+                                                     $"{LotAnalyses.Num(o.Median)} (robust z {o.Z:0.0}); refit with --free leakage-conductance or --free series-resistance"),
+                };
+                reportCandidates.Add((index, asResult, plotByIndex[index]));
+            }
+        }
         var shown = new HashSet<int>(reportCandidates.Select(c => c.Index));
         var entries = new List<HtmlReportEntry>(Math.Min(rows.Count, ReportSummaryLimit));
         var byIndex = reportCandidates.ToDictionary(c => c.Index);

@@ -166,6 +166,7 @@ internal static class ThicknessCommand
                 return ExitCodes.UsageOrInput;
             }
             var (plan, _) = fitOptions.Build(parse);
+            LotAnalyses.RefitFailures = 0;
             string dir = parse.GetValue(outDir) ?? Path.GetDirectoryName(Path.GetFullPath(resultsPath))!;
             var (comparison, wafers, _, plot) = LotAnalyses.Thickness(rows.Value, ell, plan, read.Build(parse), dir, parse.GetValue(jobs) ?? Environment.ProcessorCount, parse.GetValue(tolerance));
             if (parse.GetValue(json))
@@ -202,13 +203,13 @@ internal static class ThicknessCommand
             }
             foreach (var w in parse.GetValue(json) ? [] : wafers)
             {
-                string verdict = w.Test is { } t ? $"F = {t.F:G4}, p = {t.PValue:G3}: {w.Note}" : w.Note;
+                string verdict = w.Test is { } t ? $"F = {t.F:G4}, p {(t.PValue < 1e-16 ? "< 1e-16" : "= " + t.PValue.ToString("G3", CultureInfo.InvariantCulture))}: {w.Note}" : w.Note;
                 context.Out.WriteLine($"wafer {w.Lot}/{w.Wafer} (ellipsometry {LotAnalyses.Num(w.EllipsometricNm)} nm, {w.Dies} dies refitted with d fixed): {verdict}");
             }
             foreach (var u in comparison.UnmatchedResults) context.Error.WriteLine($"{u.File}:0: not matched: {u.Reason}");
             foreach (var u in comparison.UnmatchedEllipsometry) context.Error.WriteLine($"{ellipsometryPath}:{u.Row.SourceLine}: not matched: {u.Reason}");
             if (plot is not null) context.Error.WriteLine($"junctionfit thickness: Bland–Altman plot {plot}");
-            return comparison.Agreement is null ? ExitCodes.SomeFailed : ExitCodes.Success;
+            return comparison.Agreement is null || LotAnalyses.RefitFailures > 0 ? ExitCodes.SomeFailed : ExitCodes.Success;
         });
         return command;
     }

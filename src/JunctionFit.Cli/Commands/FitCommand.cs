@@ -198,6 +198,10 @@ internal sealed class FitOptionSet
             int eq = item.IndexOf('=', StringComparison.Ordinal);
             if (eq <= 0 || eq == item.Length - 1) throw new UsageException($"--fix: '{item}' must be NAME=VALUE, for example thickness=1.6");
             var def = FindInAny(item[..eq].Trim(), "--fix");
+            if (fixedValues.ContainsKey(def.Key) && (def.Key != StandardParameters.MassRatio.Key))
+            {
+                throw new UsageException($"--fix: {ParameterNames.CliName(def)} is given twice (also by --area or another --fix)");
+            }
             fixedValues[def.Key] = ParameterNames.ParseValueSi(def, item[(eq + 1)..].Trim(), "--fix");
             freed.Remove(def.Key);
             summary.Add($"{ParameterNames.CliName(def)} fixed at {item[(eq + 1)..].Trim()} {def.DisplayUnit}".TrimEnd());

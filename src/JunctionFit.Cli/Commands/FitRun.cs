@@ -18,11 +18,14 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
     {
         var (files, missing) = InputFiles.Expand(paths);
         int unreadable = 0;
+        var missingResults = new List<FitResult>();
         foreach (string m in missing)
         {
             context.Error.WriteLine($"{m}:0: no such file or folder");
             unreadable++;
-            if (json) context.Out.WriteLine(FitJsonFormatter.Format(FitResult.Failed(m, plan.DisplayName, "no such file or folder")));
+            var failedResult = FitResult.Failed(m, plan.DisplayName, "no such file or folder");
+            if (json) context.Out.WriteLine(FitJsonFormatter.Format(failedResult));
+            missingResults.Add(failedResult);
         }
         if (files.Count == 0 && missing.Count == 0)
         {
@@ -34,7 +37,12 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
 
         var summaries = new List<FitResult>(files.Count);
         var plotFiles = new List<string?>(files.Count);
-        int fitted = 0, notOk = 0, failed = 0;
+        int fitted = 0, notOk = 0, failed = missingResults.Count;
+        if (!json || outDir is not null)
+        {
+            summaries.AddRange(missingResults);
+            plotFiles.AddRange(missingResults.Select(_ => (string?)null));
+        }
         var usedPlotNames = new HashSet<string>(StringComparer.Ordinal);
         CurvePipeline.Run(files, readOptions, plan, jobs, (_, outcome) =>
         {

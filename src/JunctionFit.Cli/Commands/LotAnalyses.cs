@@ -24,7 +24,7 @@ internal static class LotAnalyses
         }
         catch (ArgumentException e)
         {
-            throw new UsageException($"drift: {e.Message}");
+            throw new UsageException($"drift: {CliApp.WithoutParameterName(e.Message)}");
         }
         Directory.CreateDirectory(outDir);
         var images = new List<HtmlImage>();
@@ -99,7 +99,7 @@ internal static class LotAnalyses
             : "Flagged wafers: " + string.Join("; ", flaggedWafers.Select(w => $"{w.Lot}/{w.Wafer} (electrical {Num(w.ElectricalMedianNm)} nm, ellipsometry {Num(w.EllipsometricNm)} nm)")));
         paragraphs.Add($"{comparison.UnmatchedResults.Length} result rows and {comparison.UnmatchedEllipsometry.Length} ellipsometry rows were not matched (listed below).");
         var waferCells = wafers.Select(w => (IReadOnlyList<string>)[w.Lot, w.Wafer, Num(w.EllipsometricNm), Num(w.ElectricalMedianNm), w.Dies.ToString(Inv),
-            w.Test is { } t ? t.F.ToString("G4", Inv) : "", w.Test is { } t2 ? t2.PValue.ToString("G3", Inv) : "", w.Flagged ? "FLAGGED" : w.Test is null ? "" : "no", w.Note]).ToList();
+            w.Test is { } t ? t.F.ToString("G4", Inv) : "", w.Test is { } t2 ? PValueText(t2.PValue) : "", w.Flagged ? "FLAGGED" : w.Test is null ? "" : "no", w.Note]).ToList();
         var highlight = new HashSet<int>(wafers.Select((w, i) => (w, i)).Where(x => x.w.Flagged).Select(x => x.i));
         var unmatched = comparison.UnmatchedResults.Select(u => (IReadOnlyList<string>)["result", u.File, u.Lot ?? "", u.Wafer ?? "", u.Reason])
             .Concat(comparison.UnmatchedEllipsometry.Select(u => (IReadOnlyList<string>)["ellipsometry", $"line {u.Row.SourceLine}", u.Row.Lot, u.Row.Wafer, u.Reason]))
@@ -122,6 +122,9 @@ internal static class LotAnalyses
     }
 
     /// <summary>Outcome of the per-wafer consistency refit.</summary>
+    /// <summary>Dies whose file could not be read for the consistency refit in the last run (exit code 1 when any).</summary>
+    internal static int RefitFailures { get; set; }
+
     internal sealed record WaferConsistency(string Lot, string Wafer, double EllipsometricNm, int Dies, ConsistencyTest? Test, string Note)
     {
         /// <summary>Median electrical thickness of the wafer's good dies, nm.</summary>
@@ -147,7 +150,9 @@ internal static class LotAnalyses
             var dies = rows.Where(r => r.IsGood && r.Lot == wafer.Key.Lot && r.Wafer == wafer.Key.Wafer).ToList();
             if (dies.Count == 0)
             {
-                list.Add(new WaferConsistency(wafer.Key.Lot, wafer.Key.Wafer, wafer.First().ThicknessNm, 0, null, "no good dies in the results"));
+                bool present = rows.Any(r => r.Lot == wafer.Key.Lot && r.Wafer == wafer.Key.Wafer);
+                list.Add(new WaferConsistency(wafer.Key.Lot, wafer.Key.Wafer, wafer.First().ThicknessNm, 0, null,
+                    present ? "no good dies of this wafer in the results" : "this wafer is not in the results"));
                 continue;
             }
             double rssFree = 0, rssFixed = 0;
@@ -163,7 +168,11 @@ internal static class LotAnalyses
                 try { curve = IvFileReader.ReadFile(die.File, readOptions); }
                 catch (Exception e) when (e is IvFormatException or IOException or UnauthorizedAccessException)
                 {
-                    lock (sync) notes.Add($"{die.File}: not refitted ({e.Message})");
+                    lock (sync)
+                    {
+                        notes.Add($"{die.File}: not refitted ({e.Message}); paths in results are as batch was given them — run thickness from the folder batch ran in");
+                        RefitFailures++;
+                    }
                     return;
                 }
                 var free = plan.Fit(curve);
@@ -190,9 +199,9 @@ internal static class LotAnalyses
             bool large = median is double m && Math.Abs(m - ellipsometric) > toleranceNm;
             bool flagged = !test.Consistent && large;
             string verdict = flagged
-                ? $"INCONSISTENT: fixing d at the ellipsometric value makes the fits significantly worse (p = {test.PValue:G2}) and the electrical median differs by {median!.Value - ellipsometric:+0.###;-0.###} nm (tolerance {toleranceNm} nm)"
+                ? $"INCONSISTENT: fixing d at the ellipsometric value makes the fits significantly worse (p {(test.PValue < 1e-16 ? "< 1e-16" : "= " + test.PValue.ToString("G2", Inv))}) and the electrical median differs by {median!.Value - ellipsometric:+0.###;-0.###} nm (tolerance {toleranceNm} nm)"
                 : !test.Consistent
-                    ? $"consistent within the tolerance: the refit is significantly worse (p = {test.PValue:G2}, die-to-die thickness spread), but the electrical median is within {toleranceNm} nm"
+                    ? $"consistent within the tolerance: the refit is significantly worse (p {(test.PValue < 1e-16 ? "< 1e-16" : "= " + test.PValue.ToString("G2", Inv))}, die-to-die thickness spread), but the electrical median is within {toleranceNm} nm"
                     : "consistent: fixing d at the ellipsometric value does not make the fits significantly worse";
             list.Add(new WaferConsistency(wafer.Key.Lot, wafer.Key.Wafer, ellipsometric, refitted, test, notes.Count > 0 ? verdict + "; " + string.Join("; ", notes) : verdict)
             {
@@ -237,12 +246,15 @@ internal static class LotAnalyses
                 $"Good fits whose barrier height or thickness lies more than {OutlierRobustZ} robust standard deviations (scaled MAD) from their lot's median. " +
                 "A parallel leak path or a series resistance can be absorbed by a thinner, higher barrier with residuals that look clean; check these dies " +
                 "(fit them with --free leakage-conductance or --free series-resistance, or look at the device).",
-                found.Count == 0 ? "No die is out of family." : $"{found.Count} out of family.",
+                found.Count == 0 ? "No die is out of family." : $"{found.Select(o => o.Row.File).Distinct().Count()} die(s) out of family.",
             ],
             Tables = found.Count == 0 ? [] : [new HtmlTable("Out of family", ["File", "Lot", "Wafer", "Die", "Parameter", "Value", "Lot median", "Robust z"], cells)],
         };
         return (found, section);
     }
 
-    internal static string Num(double? v) => v is double x && double.IsFinite(x) ? x.ToString("0.####", Inv) : "";
+    internal static string Num(double? v) => v is double x && double.IsFinite(x) ? (x == 0 ? 0.0 : Math.Round(x, 4) == 0 ? 0.0 : x).ToString("0.####", Inv) : "";
+
+    /// <summary>A p-value for people: "&lt; 1e-16" below double resolution, else three significant digits.</summary>
+    internal static string PValueText(double p) => p < 1e-16 ? "< 1e-16" : p.ToString("G3", Inv);
 }

@@ -25,8 +25,8 @@ internal static class SimulateCommand
         var seed = new Option<int>("--seed") { Description = "seed of the noise generator", DefaultValueFactory = _ => 1 };
         var temperature = new Option<double?>("--temperature") { Description = "sample temperature in K: applies the thermal factor (default: none, the zero-temperature form)" };
         var permittivity = new Option<double?>("--permittivity") { Description = "relative permittivity for image-force models (default 3.9)" };
-        var shape = new Option<string>("--sweep") { Description = "sweep shape: linear (from → to), positive (0 → |to|), loop (0 → +V → −V → 0 with V = max(|from|, |to|))", DefaultValueFactory = _ => "linear" };
-        var header = new Option<string[]>("--header") { Description = "write a '# key: value' line before the table (for example lot=HX-101); repeatable" };
+        var shape = new Option<string>("--sweep") { Description = "sweep shape: linear (from → to), positive (from → to, both at or above 0), loop (0 → +V → −V → 0 with V = max(|from|, |to|))", DefaultValueFactory = _ => "linear" };
+        var header = new Option<string[]>("--header") { Description = "write a '# key: value' line before the table (for example lot=KM-A01); repeatable" };
 
         var command = new Command("simulate", "Write a simulated I–V sweep (CSV: Voltage (V),Current (A)) to standard output.");
         foreach (var o in new Option[] { model, barrierHeight, thickness, area, asymmetry, massRatio, set, from, to, points, noise, noiseFloor, seed, header, temperature, permittivity, shape })
@@ -82,7 +82,7 @@ internal static class SimulateCommand
                 theta[junction.IndexOf(def.Key)] = ParameterNames.ParseValueSi(def, item[(eq + 1)..].Trim(), "--set");
             }
             int n = parse.GetValue(points);
-            if (n < 2) throw new UsageException($"--points: {n} must be at least 2");
+            if (n < 2 || n > 10_000_000) throw new UsageException($"--points: {n} must be between 2 and 10000000");
             double r = parse.GetValue(noise), floor = parse.GetValue(noiseFloor);
             if (!(r >= 0) || !double.IsFinite(r)) throw new UsageException($"--noise: {r} must be zero or positive");
             if (!(floor >= 0) || !double.IsFinite(floor)) throw new UsageException($"--noise-floor: {floor} must be zero or positive");
@@ -99,7 +99,24 @@ internal static class SimulateCommand
                     var other => throw new UsageException($"--sweep: unknown shape '{other}'; choose linear, positive or loop"),
                 },
             };
-            var (v, i) = IvSimulator.Simulate(junction, theta, spec);
+            (System.Collections.Immutable.ImmutableArray<double> v, System.Collections.Immutable.ImmutableArray<double> i) sweep;
+            try
+            {
+                sweep = IvSimulator.Simulate(junction, theta, spec);
+            }
+            catch (ArgumentException ex)
+            {
+                throw new UsageException($"simulate: {CliApp.WithoutParameterName(ex.Message)}");
+            }
+            var (v, i) = sweep;
+            for (int k = 0; k < junction.Parameters.Count; k++)
+            {
+                var def = junction.Parameters[k];
+                if (theta[k] > def.UpperSi || theta[k] < def.LowerSi)
+                {
+                    context.Error.WriteLine($"junctionfit simulate: warning: {ParameterNames.CliName(def)} = {def.ToDisplay(theta[k]):G4} {def.DisplayUnit} is outside the range the fitter accepts");
+                }
+            }
             var text = new StringBuilder(64 * n);
             foreach (string item in parse.GetValue(header) ?? [])
             {
@@ -110,7 +127,8 @@ internal static class SimulateCommand
             text.Append("Voltage (V),Current (A)\n");
             for (int k = 0; k < n; k++)
             {
-                text.Append(v[k].ToString("R", CultureInfo.InvariantCulture)).Append(',')
+                // Voltages at 12 significant digits: the sweep's own floating-point steps (0.6000000000000001) are noise.
+                text.Append(v[k].ToString("G12", CultureInfo.InvariantCulture)).Append(',')
                     .Append(i[k].ToString("R", CultureInfo.InvariantCulture)).Append('\n');
             }
             context.Out.Write(text.ToString());

@@ -29,24 +29,36 @@ internal static class TemperatureSeriesCommand
             var (plan, _) = fitOptions.Build(parse);
             if (plan.ModelNames.Count != 1) throw new UsageException("temperature-series: choose one --model (not auto)");
             var readOptions = read.Build(parse);
+            if (plan.ModelOptions.TemperatureK is not null)
+            {
+                throw new UsageException("temperature-series: each file states its own temperature; --temperature would give them all the same one");
+            }
             var curves = new List<IvCurve>();
+            bool bad = false;
             foreach (string f in parse.GetValue(files) ?? [])
             {
                 try
                 {
                     var c = IvFileReader.ReadFile(f, readOptions);
-                    if (c.TemperatureK is null && plan.ModelOptions.TemperatureK is null)
+                    if (c.TemperatureK is null)
                     {
                         context.Error.WriteLine($"{f}:0: the file states no temperature (add a 'temperature: 300 K' line)");
-                        return ExitCodes.UsageOrInput;
+                        bad = true;
+                        continue;
                     }
                     curves.Add(c);
                 }
                 catch (IvFormatException e)
                 {
                     context.Error.WriteLine(e.Message);
-                    return ExitCodes.UsageOrInput;
+                    bad = true;
                 }
+            }
+            if (bad) return ExitCodes.UsageOrInput;
+            if (curves.Select(c => c.TemperatureK).Distinct().Count() < 2)
+            {
+                context.Error.WriteLine("junctionfit temperature-series: the files need at least two different temperatures");
+                return ExitCodes.UsageOrInput;
             }
             var series = JointTemperatureFit.Fit(curves, plan);
             if (parse.GetValue(json))

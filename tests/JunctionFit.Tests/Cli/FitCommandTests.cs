@@ -198,3 +198,61 @@ public class HelpTextTests
         }
     }
 }
+
+public class ReviewRegressionTests
+{
+    [Fact]
+    public void Simulate_PositiveSweepWithNegativeEnd_ExitTwoWithoutStackTrace()
+    {
+        var (code, _, err) = CliRunner.Run("simulate", "--barrier-height", "2", "--thickness", "1.5", "--area", "100",
+            "--from", "-1", "--to", "-0.5", "--points", "5", "--sweep", "positive");
+        Assert.Equal(2, code);
+        Assert.DoesNotContain("   at ", err, StringComparison.Ordinal);
+        Assert.DoesNotContain("(Parameter", err, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Fit_UnknownOptionAfterPath_ExitTwo()
+    {
+        using var dir = new TempFolder();
+        string file = dir.File("x.csv");
+        File.WriteAllText(file, "Voltage (V),Current (A)\n0.1,1e-9\n0.2,2.1e-9\n0.3,3.3e-9\n0.4,4.7e-9\n");
+        var (code, _, err) = CliRunner.Run("fit", file, "--bogus");
+        Assert.Equal(2, code);
+        Assert.Contains("--bogus", err, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void FitJson_NoiseFreeSimulation_IsOkNotPoorFit()
+    {
+        // Residuals at rounding level carry no sign information; the misfit tests must not fire on an exact fit.
+        using var dir = new TempFolder();
+        var (sc, csv, se) = CliRunner.Run("simulate", "--model", "bdr", "--barrier-height", "2", "--thickness", "1.5", "--area", "100",
+            "--asymmetry", "0.2", "--from", "-0.6", "--to", "0.6", "--points", "61");
+        Assert.True(sc == 0, se);
+        string file = dir.File("exact.csv");
+        File.WriteAllText(file, csv);
+        var (code, output, err) = CliRunner.Run("fit", file, "--model", "bdr", "--area", "100", "--json");
+        Assert.True(code == 0, err + output);
+        Assert.Contains("\"status\":\"ok\"", output, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void FitJson_LeakyDieWithLeakageFreed_RecoversTheLeak()
+    {
+        // Simmons plus a 0.2 µS parallel leak (the demo's bad die): freeing the leak gives it back and the barrier with it.
+        using var dir = new TempFolder();
+        var (sc, csv, se) = CliRunner.Run("simulate", "--barrier-height", "1.99", "--thickness", "1.53", "--area", "100", "--from", "-0.8", "--to", "0.8",
+            "--points", "161", "--noise", "0.01", "--seed", "1064", "--set", "leakage-conductance=2e-7");
+        Assert.True(sc == 0, se);
+        string file = dir.File("leaky.csv");
+        File.WriteAllText(file, csv);
+        var (code, output, err) = CliRunner.Run("fit", file, "--area", "100", "--free", "leakage-conductance", "--json");
+        Assert.True(code == 0, err + output);
+        using var doc = System.Text.Json.JsonDocument.Parse(output.Trim());
+        var pars = doc.RootElement.GetProperty("parameters");
+        var leak = pars.GetProperty("leakage_conductance_S").GetProperty("ci95");
+        Assert.InRange(2e-7, leak[0].GetDouble(), leak[1].GetDouble());
+        Assert.InRange(pars.GetProperty("barrier_height_eV").GetProperty("value").GetDouble(), 1.95, 2.03);
+    }
+}
