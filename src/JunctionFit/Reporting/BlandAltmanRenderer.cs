@@ -136,14 +136,17 @@ public static class BlandAltmanRenderer
         var lots = c.Pairs.Select(p => p.Lot).Distinct(StringComparer.Ordinal).ToList();
         for (int k = 0; k < lots.Count; k++)
         {
+            // Open markers of a different shape and size per lot, so that coinciding wafers stay visible.
+            MarkerType[] shapes = [MarkerType.Circle, MarkerType.Square, MarkerType.Diamond, MarkerType.Triangle];
+            var colour = LotColours[k % LotColours.Length];
             var series = new ScatterSeries
             {
                 Title = $"lot {lots[k]}",
-                MarkerType = MarkerType.Circle,
-                MarkerSize = c.Level == ThicknessMatchLevel.Site ? 3.5 : 5.5,
-                MarkerFill = LotColours[k % LotColours.Length],
-                MarkerStroke = OxyColors.White,
-                MarkerStrokeThickness = 0.8,
+                MarkerType = shapes[k % shapes.Length],
+                MarkerSize = (c.Level == ThicknessMatchLevel.Site ? 3.5 : 5.5) + 2.0 * (k % shapes.Length),
+                MarkerFill = OxyColors.Transparent,
+                MarkerStroke = colour,
+                MarkerStrokeThickness = 1.6,
             };
             foreach (var p in c.Pairs.Where(p => string.Equals(p.Lot, lots[k], StringComparison.Ordinal)))
             {
@@ -164,7 +167,9 @@ public static class BlandAltmanRenderer
         Text = label,
         TextColor = colour,
         FontSize = 10.5,
-        TextHorizontalAlignment = HorizontalAlignment.Right,
+        // Labels in the middle of the lines: points cluster at the ends of the thickness range.
+        TextLinePosition = 0.5,
+        TextHorizontalAlignment = HorizontalAlignment.Center,
         TextVerticalAlignment = VerticalAlignment.Bottom,
         Layer = AnnotationLayer.BelowSeries,
     };
