@@ -90,6 +90,13 @@ public static class JunctionFitter
         double[] vUsed = data.VoltageV, yUsed = data.LogAbsCurrent, invSigma = data.InverseSigma;
         double maxAbsV = data.MaxAbsVoltageV;
         double? estimatedNoise = data.EstimatedRelativeNoise;
+        if (usedCount < nFree + 2 && data.WrongSign >= 0.9 * n && n >= nFree + 2)
+        {
+            return FitResult.Failed(curve.SourcePath, modelName,
+                $"the current has the opposite sign to the bias at {data.WrongSign} of {n} points: the terminals look swapped " +
+                "(or the current column has the other sign convention); fix the connection or negate the current") with
+            { Lot = curve.Lot, Wafer = curve.Wafer, DieX = curve.DieX, DieY = curve.DieY };
+        }
         if (usedCount < nFree + 2)
         {
             return FitResult.Failed(curve.SourcePath, modelName,

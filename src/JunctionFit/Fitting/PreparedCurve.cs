@@ -12,6 +12,9 @@ internal sealed record PreparedCurve(
     bool[] Used, double[] VoltageV, double[] LogAbsCurrent, double[] InverseSigma, double MaxAbsVoltageV,
     double? EstimatedRelativeNoise, List<string> MaskNotes)
 {
+    /// <summary>Points left out because the current has the wrong sign for its bias (or is zero).</summary>
+    public int WrongSign { get; init; }
+
     public static PreparedCurve From(IvCurve curve, FitOptions options)
     {
         double floor = options.NoiseFloorA ?? 0.0;
@@ -58,6 +61,6 @@ internal sealed record PreparedCurve(
             double c = Math.Exp(y2[u]);
             invSigma[u] = 1.0 / Math.Sqrt(relative * relative + (floor / c) * (floor / c));
         }
-        return new PreparedCurve(used, v2, y2, invSigma, maxAbsV, estimated, notes);
+        return new PreparedCurve(used, v2, y2, invSigma, maxAbsV, estimated, notes) { WrongSign = wrongSign };
     }
 }

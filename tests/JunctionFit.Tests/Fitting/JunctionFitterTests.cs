@@ -134,3 +134,17 @@ public class IdentifiabilityWarningTests
         Assert.DoesNotContain(result.Warnings, w => w.StartsWith("not identifiable", StringComparison.Ordinal));
     }
 }
+
+public class SignConventionTests
+{
+    [Fact]
+    public void Fit_CurrentOfOppositeSignEverywhere_FailsSayingTheTerminalsLookSwapped()
+    {
+        var model = new JunctionFit.Physics.JunctionCurrentModel(JunctionFit.Physics.SimmonsRectangularModel.Instance);
+        var curve = JunctionFitterTests.Simulate(2.0, 1.5, 100, 0.01, seed: 4);
+        var inverted = new JunctionFit.Import.IvCurve("swapped.csv", curve.VoltageV, [.. curve.CurrentA.Select(c => -c)]);
+        var result = JunctionFitter.Fit(inverted, model, FitOptions.Default);
+        Assert.Equal(FitStatus.Failed, result.Status);
+        Assert.Contains("terminals look swapped", result.Error, StringComparison.Ordinal);
+    }
+}
