@@ -92,12 +92,7 @@ public static class JointTemperatureFit
             if (j >= 0 && !cov.IsRankDeficient && dof > 0)
             {
                 double varX = noiseKnown ? cov.UnscaledCovariance[j * nFree + j] : cov.ScaledCovariance[j * nFree + j];
-                double seX = Math.Sqrt(varX);
-                double x = solution.Parameters[j];
-                se = Math.Abs(def.ToDisplay(ParameterTransforms.Derivative(def, thetaHat[k]) * seX));
-                double a = def.ToDisplay(ParameterTransforms.FromSolver(def, x - t975 * seX));
-                double b = def.ToDisplay(ParameterTransforms.FromSolver(def, x + t975 * seX));
-                (lo, hi) = (Math.Min(a, b), Math.Max(a, b));
+                (se, lo, hi) = ParameterTransforms.WaldInterval(def, thetaHat[k], Math.Sqrt(varX), t975);
             }
             estimates.Add(new ParameterEstimate(def.Key, def.Symbol, def.DisplayUnit, def.ToDisplay(thetaHat[k]), se, lo, hi, j < 0));
         }

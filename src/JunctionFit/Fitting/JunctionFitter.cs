@@ -179,7 +179,6 @@ public static class JunctionFitter
         double rss = best.ResidualSumOfSquares;
         bool noiseKnown = noise.Known;
         double? reducedChi2 = dof > 0 ? rss / dof : null;
-        double varianceScale = noiseKnown ? 1.0 : (reducedChi2 ?? double.NaN);
         string scaling = noiseKnown
             ? "unscaled: residuals weighted by the stated noise model"
             : noise.EstimatedRelative is double est
@@ -191,63 +190,17 @@ public static class JunctionFitter
 
         double[] thetaHat = problem.ToTheta(best.Parameters.AsSpan());
 
-        // Covariance of x = ln θ from the SVD of J: (JᵀJ)⁻¹ = V S⁻² Vᵀ.
-        var covX = new double[nFree, nFree];
-        bool covOk = nFree > 0 && dof > 0;
-        double condition = 1.0;
-        if (covOk)
+        // Covariance of the solver variables x from the column-scaled Jacobian (LinearizedCovariance: (JᵀJ)⁻¹ from a
+        // pivoted QR and the SVD of R), scaled by the residual variance unless the noise is stated.
+        LinearizedCovarianceResult? cov = null;
+        if (nFree > 0 && dof > 0 && DenseKernels.AllFinite(best.JacobianRowMajor.AsSpan()))
         {
-            // Column norms, then the column-scaled Jacobian in column-major order (no per-element delegates).
-            var colNorm = new double[nFree];
-            for (int i = 0; i < m; i++)
-            for (int j = 0; j < nFree; j++) colNorm[j] += best.JacobianRowMajor[i * nFree + j] * best.JacobianRowMajor[i * nFree + j];
-            for (int j = 0; j < nFree; j++)
-            {
-                colNorm[j] = Math.Sqrt(colNorm[j]);
-                if (!(colNorm[j] > 0) || !double.IsFinite(colNorm[j])) covOk = false;
-            }
-            if (covOk)
-            {
-                var columnMajor = new double[m * nFree];
-                for (int i = 0; i < m; i++)
-                for (int j = 0; j < nFree; j++) columnMajor[j * m + i] = best.JacobianRowMajor[i * nFree + j] / colNorm[j];
-                // J̃·P = Q·R by our pivoted Householder QR, then the SVD of the small n×n R: R = U S Wᵀ, so
-                // J̃ = Q U S (P W)ᵀ and the right singular vectors of J̃ are the rows of W permuted back by P.
-                var pivot = new int[nFree];
-                var rdiag = new double[nFree];
-                var norms = new double[nFree];
-                var work = new double[nFree];
-                PivotedQr.Factor(m, nFree, columnMajor, pivot, rdiag, norms, work);
-                var r = Matrix<double>.Build.Dense(nFree, nFree);
-                for (int i = 0; i < nFree; i++)
-                {
-                    r[i, i] = rdiag[i];
-                    for (int j = i + 1; j < nFree; j++) r[i, j] = columnMajor[j * m + i];
-                }
-                var small = r.Svd(computeVectors: true);
-                var vtPermuted = Matrix<double>.Build.Dense(nFree, nFree);
-                for (int sIdx = 0; sIdx < nFree; sIdx++)
-                for (int i = 0; i < nFree; i++) vtPermuted[sIdx, pivot[i]] = small.VT[sIdx, i];
-                var svd = (S: small.S, VT: vtPermuted);
-                double sMax = svd.S[0], sMin = svd.S[nFree - 1];
-                condition = sMin > 0 ? sMax / sMin : double.PositiveInfinity;
-                if (sMin <= sMax * 1e-14)
-                {
-                    covOk = false;
-                }
-                else
-                {
-                    var vt = svd.VT;
-                    for (int a = 0; a < nFree; a++)
-                    for (int b = 0; b < nFree; b++)
-                    {
-                        double sum = 0;
-                        for (int s = 0; s < nFree; s++) sum += vt[s, a] * vt[s, b] / (svd.S[s] * svd.S[s]);
-                        covX[a, b] = sum * varianceScale / (colNorm[a] * colNorm[b]);
-                    }
-                }
-            }
+            cov = LinearizedCovariance.Compute(best);
         }
+        bool covOk = cov is { IsRankDeficient: false };
+        double condition = cov?.ConditionNumber ?? 1.0;
+        var covFlat = cov is null ? [] : noiseKnown ? cov.UnscaledCovariance : cov.ScaledCovariance;
+        double CovX(int a, int b) => covFlat[a * nFree + b];
 
         double tQuantile = dof > 0 ? StudentT.InvCDF(0.0, 1.0, dof, 0.975) : double.NaN;
         var estimates = ImmutableArray.CreateBuilder<ParameterEstimate>(p);
@@ -257,15 +210,9 @@ public static class JunctionFitter
             int j = Array.IndexOf(freeIndex, k);
             double value = thetaHat[k];
             double? se = null, lo = null, hi = null;
-            if (j >= 0 && covOk && covX[j, j] >= 0 && double.IsFinite(covX[j, j]))
+            if (j >= 0 && covOk && CovX(j, j) >= 0 && double.IsFinite(CovX(j, j)))
             {
-                double seX = Math.Sqrt(covX[j, j]);
-                double x = ParameterTransforms.ToSolver(def, value);
-                se = Math.Abs(def.ToDisplay(ParameterTransforms.Derivative(def, value) * seX));
-                double a = def.ToDisplay(ParameterTransforms.FromSolver(def, x - tQuantile * seX));
-                double b = def.ToDisplay(ParameterTransforms.FromSolver(def, x + tQuantile * seX));
-                lo = Math.Min(a, b);
-                hi = Math.Max(a, b);
+                (se, lo, hi) = ParameterTransforms.WaldInterval(def, value, Math.Sqrt(CovX(j, j)), tQuantile);
             }
             estimates.Add(new ParameterEstimate(def.Key, def.Symbol, def.DisplayUnit, def.ToDisplay(value), se, lo, hi, j < 0));
         }
@@ -278,7 +225,7 @@ public static class JunctionFitter
         {
             for (int a = 0; a < nFree; a++)
             for (int b = 0; b < nFree; b++)
-                corr.Add(covX[a, b] / Math.Sqrt(covX[a, a] * covX[b, b]));
+                corr.Add(CovX(a, b) / Math.Sqrt(CovX(a, a) * CovX(b, b)));
             var pairs = new List<string>();
             var involved = new SortedSet<int>();
             for (int a = 0; a < nFree; a++)
@@ -286,7 +233,7 @@ public static class JunctionFitter
             {
                 double rho = corr[a * nFree + b];
                 if (Math.Abs(rho) > CorrelationWarningThreshold
-                    && Math.Max(Math.Sqrt(covX[a, a]), Math.Sqrt(covX[b, b])) > IdentifiabilityRelativeError)
+                    && Math.Max(Math.Sqrt(CovX(a, a)), Math.Sqrt(CovX(b, b))) > IdentifiabilityRelativeError)
                 {
                     pairs.Add($"{defs[freeIndex[a]].Description} / {defs[freeIndex[b]].Description} {rho:0.0000}");
                     involved.Add(freeIndex[a]);

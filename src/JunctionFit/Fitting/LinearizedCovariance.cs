@@ -110,19 +110,42 @@ public static class LinearizedCovariance
             scale[j] = sum > 0.0 ? Math.Sqrt(sum) : 1.0;
         }
 
-        var scaled = Matrix<double>.Build.Dense(m, n);
+        // J̃ = J C⁻¹ column-major, then J̃·P = Q·R by our pivoted Householder QR and the SVD of the small n×n R:
+        // R = U Σ Wᵀ, so J̃ = Q U Σ (P W)ᵀ — the singular values of J̃ and, permuted back by P, its right singular
+        // vectors, without the m×m left factor of a full SVD (318 KB per 201-point fit, measured).
+        var columnMajor = new double[m * n];
         for (int i = 0; i < m; i++)
         {
             for (int j = 0; j < n; j++)
             {
-                scaled[i, j] = jacobianRowMajor[(i * n) + j] / scale[j];
+                columnMajor[(j * m) + i] = jacobianRowMajor[(i * n) + j] / scale[j];
             }
         }
 
-        // SVD of R from a thin QR: same singular values and right vectors, without the m×m left factor.
-        var svd = scaled.QR(MathNet.Numerics.LinearAlgebra.Factorization.QRMethod.Thin).R.Svd(computeVectors: true);
-        var sigma = svd.S;
-        var vt = svd.VT;
+        var pivot = new int[n];
+        var rdiag = new double[n];
+        PivotedQr.Factor(m, n, columnMajor, pivot, rdiag, new double[n], new double[n]);
+        var r = Matrix<double>.Build.Dense(n, n);
+        for (int i = 0; i < n; i++)
+        {
+            r[i, i] = rdiag[i];
+            for (int j = i + 1; j < n; j++)
+            {
+                r[i, j] = columnMajor[(j * m) + i];
+            }
+        }
+
+        var small = r.Svd(computeVectors: true);
+        var sigma = small.S;
+        var vt = Matrix<double>.Build.Dense(n, n);
+        for (int k = 0; k < n; k++)
+        {
+            for (int i = 0; i < n; i++)
+            {
+                vt[k, pivot[i]] = small.VT[k, i];
+            }
+        }
+
         double smax = sigma[0];
         double cutoff = m * PivotedQr.MachineEpsilon * smax;
         int rank = 0;

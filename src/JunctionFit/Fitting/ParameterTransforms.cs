@@ -35,6 +35,19 @@ internal static class ParameterTransforms
         _ => 1.0,
     };
 
+    /// <summary>
+    /// Wald interval in the solver variable, mapped back: x̂ ± t·se_x through <see cref="FromSolver"/>, so it stays inside
+    /// the bounds; the standard error by the delta method, |dθ/dx|·se_x. All three in the display unit.
+    /// </summary>
+    public static (double StandardError, double Lower, double Upper) WaldInterval(ParameterDefinition def, double thetaSi, double seX, double t)
+    {
+        double x = ToSolver(def, thetaSi);
+        double se = Math.Abs(def.ToDisplay(Derivative(def, thetaSi) * seX));
+        double a = def.ToDisplay(FromSolver(def, x - t * seX));
+        double b = def.ToDisplay(FromSolver(def, x + t * seX));
+        return (se, Math.Min(a, b), Math.Max(a, b));
+    }
+
     /// <summary>Clamps a start value strictly inside the bounds so that its transform is finite.</summary>
     public static double Inside(ParameterDefinition def, double theta)
     {
