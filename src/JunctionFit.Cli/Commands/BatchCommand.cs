@@ -52,11 +52,12 @@ internal static class BatchCommand
             var (plan, summary) = fitOptions.Build(parse);
             int jobCount = parse.GetValue(jobs) ?? Environment.ProcessorCount;
             if (jobCount < 1) throw new UsageException($"--jobs: {jobCount} must be at least 1");
-            var settings = new BatchSettings(parse.GetValue(dir)!, parse.GetValue(outDir)!, !parse.GetValue(noPlots), jobCount, read.Build(parse), plan, summary)
+            var readOptions = read.Build(parse);
+            var settings = new BatchSettings(parse.GetValue(dir)!, parse.GetValue(outDir)!, !parse.GetValue(noPlots), jobCount, readOptions, plan, summary)
             {
                 Database = parse.GetValue(noDb) ? null : parse.GetValue(db) ?? Path.Combine(parse.GetValue(outDir)!, ResultStore.DefaultFileName),
                 Force = parse.GetValue(force),
-                IdentityExtras = [.. fitOptions.IdentityExtras(parse), .. read.IdentityExtras(parse)],
+                IdentityExtras = [.. FitOptionSet.IdentityExtras(plan), .. ReadOptionSet.IdentityExtras(readOptions)],
             };
             return Run(context, settings).ExitCode;
         });

@@ -247,9 +247,9 @@ internal sealed class FitOptionSet
     }
 
     /// <summary>Settings outside <see cref="FitOptions"/> that change a fit, for the results database's identity.</summary>
-    public IEnumerable<KeyValuePair<string, string>> IdentityExtras(ParseResult parse)
+    public static IEnumerable<KeyValuePair<string, string>> IdentityExtras(FitPlan plan)
     {
-        var (plan, _) = Build(parse);
+        ArgumentNullException.ThrowIfNull(plan);
         yield return new("models", string.Join(",", plan.ModelNames));
         yield return new("temperature_K", plan.ModelOptions.TemperatureK?.ToString("R", System.Globalization.CultureInfo.InvariantCulture) ?? "");
         yield return new("temperature_from_file", plan.TemperatureFromFile ? "true" : "false");

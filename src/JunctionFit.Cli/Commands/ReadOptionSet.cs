@@ -35,9 +35,9 @@ internal sealed class ReadOptionSet
     }
 
     /// <summary>Import overrides, for the results database's identity.</summary>
-    public IEnumerable<KeyValuePair<string, string>> IdentityExtras(ParseResult parse)
+    public static IEnumerable<KeyValuePair<string, string>> IdentityExtras(IvReadOptions o)
     {
-        var o = Build(parse);
+        ArgumentNullException.ThrowIfNull(o);
         yield return new("read", $"v={o.VoltageColumn};i={o.CurrentColumn};vu={o.VoltageUnit};iu={o.CurrentUnit};delim={(o.Delimiter is char c ? ((int)c).ToString(CultureInfo.InvariantCulture) : "")};" +
                                  $"dec={o.DecimalComma};seg={(o.Segments is { } s ? string.Join(",", s) : "")};compliance={o.MaskCompliance};pattern={o.PathPattern}");
     }
