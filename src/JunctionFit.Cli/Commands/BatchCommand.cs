@@ -159,6 +159,10 @@ internal static class BatchCommand
                 }
                 var result = outcome.Result;
                 if (result.Status != FitStatus.Ok) notOk++;
+                if (result.Status != FitStatus.Ok && outcome.ReadError is null)
+                {
+                    context.Error.WriteLine($"{result.SourcePath}:0: {FitJsonFormatter.StatusText(result.Status)}: {result.StatusReason ?? result.Error}");
+                }
                 string? plot = null;
                 if (outcome.PlotPng is { } png)
                 {

@@ -88,6 +88,31 @@ internal sealed class FitOptionSet
         DefaultValueFactory = _ => 1,
     };
 
+    public Option<string?> BiasWindow { get; } = new("--bias-window")
+    {
+        Description = "fit only the points with LO ≤ V ≤ HI, in volt, written LO:HI (either end may be left empty: 0.2: or :-0.2)",
+    };
+
+    public Option<string?> Polarity { get; } = new("--polarity")
+    {
+        Description = "fit only one polarity: positive (V > 0) or negative (V < 0); combines with --bias-window",
+    };
+
+    public Option<string?> SweepDirection { get; } = new("--sweep-direction")
+    {
+        Description = "fit only the points of one sweep direction: rising or falling bias (default both; see the hysteresis diagnosis)",
+    };
+
+    public Option<double?> MisfitTolerance { get; } = new("--misfit-tolerance")
+    {
+        Description = "largest systematic misfit (RMS of ln I residuals beyond the point-to-point noise) of an ok fit (default 0.05, about 5 % in current)",
+    };
+
+    public Option<bool> KeepSettling { get; } = new("--keep-settling")
+    {
+        Description = "keep the first point of a trace even when it looks like a settling artefact (by default it is left out, with a warning)",
+    };
+
     public Option<bool> AreaFromFile { get; } = new("--area-from-file")
     {
         Description = "fix the area at each file's stated area (its 'area' metadata) where it states one",
@@ -110,6 +135,57 @@ internal sealed class FitOptionSet
         command.Options.Add(Noise);
         command.Options.Add(NoiseFloor);
         command.Options.Add(Compliance);
+        command.Options.Add(BiasWindow);
+        command.Options.Add(Polarity);
+        command.Options.Add(SweepDirection);
+        command.Options.Add(MisfitTolerance);
+        command.Options.Add(KeepSettling);
+    }
+
+    /// <summary>Parses --bias-window LO:HI and --polarity into the window ends in volt (null: open).</summary>
+    internal static (double? Low, double? High, string? Summary) ParseWindow(string? window, string? polarity)
+    {
+        double? low = null, high = null;
+        var parts = new List<string>();
+        if (window is not null)
+        {
+            int colon = window.IndexOf(':', StringComparison.Ordinal);
+            if (colon < 0) throw new UsageException($"--bias-window: '{window}' must be LO:HI in volt, for example -0.5:0.5 or 0.2:");
+            static double? End(string text, string whole)
+            {
+                text = text.Trim();
+                if (text.Length == 0) return null;
+                if (!double.TryParse(text, System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out double v) || !double.IsFinite(v))
+                {
+                    throw new UsageException($"--bias-window: '{text}' in '{whole}' is not a number of volts");
+                }
+                return v;
+            }
+            low = End(window[..colon], window);
+            high = End(window[(colon + 1)..], window);
+            if (low is double lo && high is double hi && !(lo < hi)) throw new UsageException($"--bias-window: LO must be below HI in '{window}'");
+            parts.Add($"bias window {low?.ToString("G6", System.Globalization.CultureInfo.InvariantCulture) ?? ""}:{high?.ToString("G6", System.Globalization.CultureInfo.InvariantCulture) ?? ""} V");
+        }
+        if (polarity is not null)
+        {
+            switch (polarity.Trim().ToLowerInvariant())
+            {
+                case "positive" or "pos" or "+":
+                    low = Math.Max(low ?? double.Epsilon, double.Epsilon);
+                    parts.Add("positive bias only");
+                    break;
+                case "negative" or "neg" or "-":
+                    high = Math.Min(high ?? -double.Epsilon, -double.Epsilon);
+                    parts.Add("negative bias only");
+                    break;
+                case "both":
+                    break;
+                default:
+                    throw new UsageException($"--polarity: unknown value '{polarity}'; choose positive, negative or both");
+            }
+            if (low is double l2 && high is double h2 && !(l2 < h2)) throw new UsageException("--polarity: no bias is left inside --bias-window with this polarity");
+        }
+        return (low, high, parts.Count > 0 ? string.Join(", ", parts) : null);
     }
 
     /// <summary>Parasitic parameters that <c>--free</c> or <c>--fix</c> switch on by naming them.</summary>
@@ -217,8 +293,29 @@ internal sealed class FitOptionSet
         bool fileTemperature = !parse.GetValue(IgnoreFileTemperature);
         summary.Add(temperature is double tk ? $"temperature {tk} K" : fileTemperature ? "temperature from each file where stated" : "zero-temperature forms");
 
+        var (windowLow, windowHigh, windowSummary) = ParseWindow(parse.GetValue(BiasWindow), parse.GetValue(Polarity));
+        if (windowSummary is not null) summary.Add(windowSummary);
+        int direction = (parse.GetValue(SweepDirection)?.Trim().ToLowerInvariant()) switch
+        {
+            null or "both" => 0,
+            "rising" or "up" or "forward" => 1,
+            "falling" or "down" or "reverse" => -1,
+            var other => throw new UsageException($"--sweep-direction: unknown value '{other}'; choose rising, falling or both"),
+        };
+        if (direction != 0) summary.Add(direction > 0 ? "rising sweep only" : "falling sweep only");
+        double misfit = parse.GetValue(MisfitTolerance) ?? FitOptions.DefaultMisfitTolerance;
+        if (!(misfit > 0) || !double.IsFinite(misfit)) throw new UsageException($"--misfit-tolerance: {misfit} must be a positive number (0.05 is 5 %)");
+        if (parse.GetValue(MisfitTolerance) is not null) summary.Add($"misfit tolerance {misfit}");
+        bool keepSettling = parse.GetValue(KeepSettling);
+        if (keepSettling) summary.Add("settling artefacts kept");
+
         var options = new FitOptions
         {
+            BiasWindowLowV = windowLow,
+            BiasWindowHighV = windowHigh,
+            SweepDirection = direction,
+            MisfitTolerance = misfit,
+            KeepSettling = keepSettling,
             FixedValues = fixedValues.ToImmutable(),
             FreedKeys = freed.ToImmutable(),
             StartValues = starts.ToImmutable(),

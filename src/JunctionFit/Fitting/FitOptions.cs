@@ -20,8 +20,41 @@ public sealed record FitOptions
     /// <summary>Relative current noise r of σ_I² = (r·I)² + σ_floor²; null: unknown (weights relative, covariance scaled).</summary>
     public double? RelativeNoise { get; init => field = value is double v ? Guard.Positive(v) : null; }
 
-    /// <summary>Current noise floor σ_floor in ampere; points with |I| ≤ 3·σ_floor are masked. Null: 0.</summary>
+    /// <summary>
+    /// Current noise floor σ_floor in ampere; points with |I| ≤ 3·σ_floor are masked. Null: estimated from the data
+    /// (<see cref="NoiseFloorEstimator"/>).
+    /// </summary>
     public double? NoiseFloorA { get; init => field = value is double v ? Guard.NonNegative(v) : null; }
+
+    /// <summary>
+    /// Lowest bias in volt of the points that enter the fit (inclusive); null: no lower limit. With
+    /// <see cref="BiasWindowHighV"/> it selects a branch or a range of the sweep (<c>--bias-window</c>, <c>--polarity</c>).
+    /// </summary>
+    public double? BiasWindowLowV { get; init => field = value is double v ? Guard.Finite(v) : null; }
+
+    /// <summary>Highest bias in volt of the points that enter the fit (inclusive); null: no upper limit.</summary>
+    public double? BiasWindowHighV { get; init => field = value is double v ? Guard.Finite(v) : null; }
+
+    /// <summary>
+    /// Largest systematic misfit, as the RMS of the ln|I| residuals beyond the point-to-point noise, for which a fit is
+    /// <c>ok</c> (default 0.05, about 5 % in current; common practice, no source). See docs/fitting.md, "Status".
+    /// </summary>
+    public double MisfitTolerance { get; init => field = Guard.Positive(value); } = DefaultMisfitTolerance;
+
+    /// <summary>Default of <see cref="MisfitTolerance"/>.</summary>
+    public const double DefaultMisfitTolerance = 0.05;
+
+    /// <summary>Fit only the points of one sweep direction: +1 rising bias, −1 falling bias, 0 both (default).</summary>
+    public int SweepDirection { get; init => field = value is -1 or 0 or 1 ? value : throw new ArgumentOutOfRangeException(nameof(SweepDirection), value, "−1, 0 or +1"); }
+
+    /// <summary>Keep the first point of a trace even when it looks like a settling artefact (default: leave it out).</summary>
+    public bool KeepSettling { get; init; }
+
+    /// <summary>
+    /// Run the curve diagnoses that need extra fits (separate fits of the two sweep directions for hysteresis). On by
+    /// default; the direction fits themselves run with it off.
+    /// </summary>
+    public bool DirectionFits { get; init; } = true;
 
     /// <summary>Current compliance in ampere; points with |I| ≥ 0.999·compliance are masked. Null: the file's, if any.</summary>
     public double? ComplianceA { get; init => field = value is double v ? Guard.Positive(v) : null; }

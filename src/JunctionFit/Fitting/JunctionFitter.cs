@@ -86,23 +86,31 @@ public static class JunctionFitter
         var data = PreparedCurve.From(curve, options);
         int n = curve.Count, usedCount = data.VoltageV.Length, masked = n - usedCount;
         bool[] used = data.Used;
-        var maskNotes = data.MaskNotes;
         double[] vUsed = data.VoltageV, yUsed = data.LogAbsCurrent, invSigma = data.InverseSigma;
         double maxAbsV = data.MaxAbsVoltageV;
-        double? estimatedNoise = data.EstimatedRelativeNoise;
+        var (rawMaxV, rawMaxI) = CurveDiagnostics.Extremes(curve.VoltageV.AsSpan(), curve.CurrentA.AsSpan());
         if (usedCount < nFree + 2 && data.WrongSign >= 0.9 * n && n >= nFree + 2)
         {
-            return FitResult.Failed(curve.SourcePath, modelName,
+            return Failed(curve, modelName, "swapped",
                 $"the current has the opposite sign to the bias at {data.WrongSign} of {n} points: the terminals look swapped " +
-                "(or the current column has the other sign convention); fix the connection or negate the current") with
-            { Lot = curve.Lot, Wafer = curve.Wafer, DieX = curve.DieX, DieY = curve.DieY };
+                "(or the current column has the other sign convention); fix the connection or negate the current");
+        }
+        bool floorOnly = usedCount < Math.Max(nFree + 2, 0.2 * data.InWindow) && data.BelowFloor + data.WrongSign >= 0.8 * data.InWindow;
+        bool randomSign = data.WrongSign >= 0.25 * data.InWindow && data.WrongSignHighBias >= 3 && data.WrongSign < 0.9 * data.InWindow;
+        if (data.InWindow >= 4 && (floorOnly || randomSign))
+        {
+            string floorText = data.Floor.FloorA > 0 ? $" against a noise floor of {data.Floor.Describe()}" : "";
+            return Failed(curve, modelName, "open",
+                $"open circuit: the current stays at the instrument floor at every bias (largest |I| {rawMaxI:0.0#e+0} A{floorText}, " +
+                $"{data.WrongSign} of {data.InWindow} readings with the wrong sign): no contact, a broken die or the wrong channel; " +
+                "check the probe contact and the current column (--current-column)");
         }
         if (usedCount < nFree + 2)
         {
-            return FitResult.Failed(curve.SourcePath, modelName,
+            return Failed(curve, modelName, "too-few-points",
                 $"only {usedCount} of {n} points are usable (non-zero bias with current of the same sign, above the noise floor, " +
-                $"below compliance); at least {nFree + 2} are needed for {nFree} free parameters") with
-            { Lot = curve.Lot, Wafer = curve.Wafer, DieX = curve.DieX, DieY = curve.DieY };
+                $"below compliance, inside the bias window); at least {nFree + 2} are needed for {nFree} free parameters" +
+                (data.MaskNotes.Count > 0 ? $" (left out: {string.Join("; ", data.MaskNotes)})" : ""));
         }
 
         // ---- data-driven start and multi-start LM -------------------------------------------------------
@@ -131,9 +139,8 @@ public static class JunctionFitter
         }
         if (best is null)
         {
-            return FitResult.Failed(curve.SourcePath, modelName,
-                "the model could not be evaluated at any start value (non-finite currents); check the bias range and units") with
-            { Lot = curve.Lot, Wafer = curve.Wafer, DieX = curve.DieX, DieY = curve.DieY };
+            return Failed(curve, modelName, "not-evaluable",
+                "the model could not be evaluated at any start value (non-finite currents); check the bias range and units (--voltage-unit, --current-unit)");
         }
         var fullProblem = problem;
         if (profileArea)
@@ -143,10 +150,9 @@ public static class JunctionFitter
             var thetaBest = problem.ToTheta(best.Parameters.AsSpan());
             if (!Array.TrueForAll(thetaBest, double.IsFinite) || !(thetaBest[model.AreaIndex] > 0))
             {
-                return FitResult.Failed(curve.SourcePath, modelName,
+                return Failed(curve, modelName, "no-area",
                     $"the {modelName} model cannot describe this curve at any effective area (the best area is not a finite positive number); " +
-                    "check that the model suits the bias range, or fix the area (--area)") with
-                { Lot = curve.Lot, Wafer = curve.Wafer, DieX = curve.DieX, DieY = curve.DieY };
+                    "check that the model suits the bias range (--bias-window), or fix the area (--area)");
             }
             fullProblem = new LogCurrentProblem(model, vUsed, yUsed, invSigma, freeIndex, thetaBest);
             var x0 = new double[freeIndex.Length];
@@ -164,24 +170,33 @@ public static class JunctionFitter
         }
         best = best with { Iterations = iterations };
 
-        var noise = new NoiseContext(options.RelativeNoise is not null, estimatedNoise, maskNotes);
-        return BuildResult(curve, model, options, best, fullProblem, freeIndex, used, usedCount, masked, maxAbsV, noise);
+        var result = BuildResult(curve, model, options, best, fullProblem, freeIndex, used, usedCount, masked, maxAbsV, data, rawMaxV, rawMaxI);
+        if (options.DirectionFits && result.Status != FitStatus.Failed)
+        {
+            result = DirectionFits.Attach(curve, model, options, data, result);
+        }
+        return result;
     }
 
-    private sealed record NoiseContext(bool Known, double? EstimatedRelative, List<string> MaskNotes);
+    private static FitResult Failed(IvCurve curve, string modelName, string diagnosis, string error) =>
+        FitResult.Failed(curve.SourcePath, modelName, error) with
+        {
+            Diagnoses = [diagnosis], Lot = curve.Lot, Wafer = curve.Wafer, DieX = curve.DieX, DieY = curve.DieY,
+        };
 
     private static FitResult BuildResult(IvCurve curve, JunctionCurrentModel model, FitOptions options, LeastSquaresSolution best,
-        LogCurrentProblem problem, int[] freeIndex, bool[] used, int usedCount, int masked, double maxAbsV, NoiseContext noise)
+        LogCurrentProblem problem, int[] freeIndex, bool[] used, int usedCount, int masked, double maxAbsV, PreparedCurve noise,
+        double rawMaxV, double rawMaxI)
     {
         var defs = model.Parameters;
         int p = defs.Count, nFree = freeIndex.Length, m = usedCount;
         int dof = m - nFree;
         double rss = best.ResidualSumOfSquares;
-        bool noiseKnown = noise.Known;
+        bool noiseKnown = options.RelativeNoise is not null;
         double? reducedChi2 = dof > 0 ? rss / dof : null;
         string scaling = noiseKnown
             ? "unscaled: residuals weighted by the stated noise model"
-            : noise.EstimatedRelative is double est
+            : noise.EstimatedRelativeNoise is double est
                 ? $"scaled by the reduced chi-square; weights from the point-to-point relative noise {est:0.###e+0} estimated from the data"
                 : "scaled by the reduced chi-square (residual variance estimated from the fit)";
         const string intervalMethod = "Wald, in log parameters, t quantile, mapped back (stays inside the physical bounds)";
@@ -276,20 +291,60 @@ public static class JunctionFitter
         }
         var status = FitStatus.Ok;
         string? error = null;
-        var outOfBounds = new List<string>();
+        string? reason = null;
+        var diagnoses = new List<string>();
+        void Poor(string why)
+        {
+            if (status == FitStatus.Ok) status = FitStatus.PoorFit;
+            reason ??= why;
+        }
+
+        // Misfit in practical terms: the weighted RMS of the ln|I| residuals, normalised to the relative noise, and the part
+        // of it beyond the point-to-point noise.
+        bool noiseEstimated = noiseKnown || noise.EstimatedRelativeNoise is not null;
+        double relNoise = noise.RelativeNoiseUsed;
+        double? logRms = dof > 0 ? relNoise * Math.Sqrt(rss / dof) : null;
+        double? systematic = logRms is double lr
+            ? noiseEstimated ? relNoise * Math.Sqrt(Math.Max(0.0, rss / dof - 1.0)) : lr
+            : null;
+
+        // Parameters that ran to the edge of their physical range: not determined by these data.
+        var undetermined = new List<int>();
         for (int k = 0; k < p; k++)
         {
-            if (Array.IndexOf(freeIndex, k) >= 0 && (thetaHat[k] > defs[k].UpperSi || thetaHat[k] < defs[k].LowerSi))
-            {
-                outOfBounds.Add($"{defs[k].Description} {defs[k].ToDisplay(thetaHat[k]):G4} {defs[k].DisplayUnit}".TrimEnd());
-            }
+            if (Array.IndexOf(freeIndex, k) < 0) continue;
+            var (lo, hi) = UndeterminedParameters.PlausibleRange(defs[k]);
+            if (!(thetaHat[k] >= lo && thetaHat[k] <= hi)) undetermined.Add(k);
         }
-        if (!best.Converged)
+
+        // Straight line: a resistor, a short, or a barrier swept only in its linear region.
+        var (conductance, ohmicRms) = CurveDiagnostics.StraightLine(noise.VoltageV, noise.LogAbsCurrent, noise.InverseSigma);
+        bool ohmic = double.IsFinite(ohmicRms) && usedCount >= 6
+            && ohmicRms <= Math.Max(CurveDiagnostics.OhmicLogTolerance, 1.5 * (noiseEstimated ? relNoise : 0.0));
+        string OhmicText()
+        {
+            double r = 1.0 / conductance;
+            double? area = curve.AreaM2 ?? (Array.IndexOf(freeIndex, model.AreaIndex) < 0 ? thetaHat[model.AreaIndex] : null);
+            string ra = area is double aM2 ? $", R·A = {r * aM2 * 1e12:G3} Ω·µm²" : "";
+            return $"R = {FormatOhm(r)}{ra}; I/V is constant within {ohmicRms * 100:0.#} % over ±{maxAbsV:G3} V";
+        }
+        if (ohmic && 1.0 / conductance < CurveDiagnostics.ShortResistanceOhm)
+        {
+            diagnoses.Add("shorted");
+            status = FitStatus.Failed;
+            error = $"shorted: the curve is a straight line through zero ({OhmicText()}): a short through the barrier or between the probes, " +
+                    "not tunnelling; exclude the die (or check the probe placement)";
+            reason = error;
+        }
+
+        if (status != FitStatus.Failed && !best.Converged)
         {
             status = FitStatus.Failed;
-            error = $"the solver did not converge ({best.Reason}); give start values or fix the area";
+            error = $"the solver did not converge ({best.Reason}); fix the area (--area or --area-from-file), narrow the bias window " +
+                    "(--bias-window), or hold a parameter fixed (--fix thickness=NM)";
+            reason = error;
         }
-        else if (!covOk && nFree > 0)
+        else if (status != FitStatus.Failed && !covOk && nFree > 0 && undetermined.Count == 0)
         {
             status = FitStatus.Failed;
             var vanished = new List<string>();
@@ -302,52 +357,107 @@ public static class JunctionFitter
                 : "these data do not determine the free parameters together (singular Jacobian: the curve has fewer independent features than " +
                   "free parameters); " + (isFreeArea(model, freeIndex)
                       ? "fix the area from the lithography (--area or --area-from-file) or widen the bias range"
-                      : "widen the bias range or fix another parameter");
+                      : "widen the bias range or fix another parameter (--fix)");
+            reason = error;
         }
-        else
+        if (status != FitStatus.Failed)
         {
-            if (outOfBounds.Count > 0)
+            foreach (string u in CurveDiagnostics.UnitWarnings(rawMaxV, rawMaxI))
             {
-                status = FitStatus.PoorFit;
-                warnings.Add($"outside the physical range: {string.Join(", ", outOfBounds)}; the data do not pin these down. " +
-                             "Remedy: fix the area (--area), widen the bias range, or fix the thickness from ellipsometry");
+                if (!diagnoses.Contains("units")) diagnoses.Add("units");
+                warnings.Add(u);
+                Poor(u);
             }
-            // At rounding level (noise-free simulated data) the residual signs say nothing about the model.
-            double sumSquares = 0;
-            int countUsed = 0;
-            for (int i = 0; i < n; i++)
+            if (undetermined.Count > 0)
             {
-                if (used[i] && double.IsFinite(logResidual[i])) { sumSquares += logResidual[i] * logResidual[i]; countUsed++; }
+                diagnoses.Add("undetermined");
+                double scale = noiseKnown ? 1.0 : rss / Math.Max(dof, 1);
+                var bounds = new List<string>();
+                foreach (int k in undetermined)
+                {
+                    var bound = UndeterminedParameters.OneSidedBound(model, noise, options, thetaHat, freeIndex, k, rss, scale);
+                    var def = defs[k];
+                    estimates[k] = estimates[k] with { Value = double.NaN, StandardError = null, Lower95 = bound?.IsLower == true ? bound.Value : null,
+                        Upper95 = bound?.IsLower == false ? bound.Value : null, Bound = bound };
+                    bounds.Add(bound is null
+                        ? $"{def.Description} (ran to {def.ToDisplay(thetaHat[k]):G3} {def.DisplayUnit}, no bound found)".Replace(" )", ")")
+                        : $"{def.Symbol} {(bound.IsLower ? "≥" : "≤")} {bound.Value:G3} {def.DisplayUnit}".TrimEnd());
+                }
+                // The other free parameters are conditional on an edge value: no honest interval for them either.
+                for (int k = 0; k < p; k++)
+                {
+                    if (Array.IndexOf(freeIndex, k) >= 0 && !undetermined.Contains(k))
+                    {
+                        estimates[k] = estimates[k] with { StandardError = null, Lower95 = null, Upper95 = null };
+                    }
+                }
+                string why = $"not determined by these data: {string.Join(", ", bounds)} (one-sided 95 % profile bounds; the fit ran to the edge " +
+                             "of the physical range, so no value is given and the other parameters have no interval)";
+                if (ohmic)
+                {
+                    diagnoses.Add("ohmic");
+                    string ohmicWhy = $"ohmic: the curve is a straight line ({OhmicText()}) — a resistor, a leak path or a barrier swept only in its " +
+                                      "linear region; tunnelling parameters need the curvature of I(V): widen the bias range, or, if a leak " +
+                                      "adds to a tunnel current, fit with --free leakage-conductance";
+                    warnings.Add(ohmicWhy);
+                    Poor(ohmicWhy);
+                }
+                var phiDef = defs.FirstOrDefault(d => d.Key == StandardParameters.BarrierHeight.Key);
+                if (phiDef is not null && undetermined.Contains(model.IndexOf(phiDef.Key)) && thetaHat[model.IndexOf(phiDef.Key)] > phiDef.UpperSi
+                    && !ohmic && !diagnoses.Contains("units") && Array.IndexOf(freeIndex, model.AreaIndex) < 0)
+                {
+                    warnings.Add("the barrier height ran above any insulator's (largest band gaps are about 9 eV): if the current column is not in " +
+                                 "ampere (nA, µA, mA) give --current-unit, and check the area (--area) and the voltage unit (--voltage-unit)");
+                }
+                Poor(why);
+                warnings.Add(why);
             }
-            bool exact = countUsed > 0 && Math.Sqrt(sumSquares / countUsed) < ExactFitLogResidual;
-            double z = exact ? 0.0 : RunsTestZ(curve.VoltageV.AsSpan(), best.Residuals.AsSpan(), used);
-            if (z < RunsTestCriticalZ)
+            else if (ohmic)
             {
-                status = FitStatus.PoorFit;
-                warnings.Add((
-                    $"systematic misfit: the residual signs form far fewer runs than random noise would (runs test z = {z:0.0}); " +
-                    "the model does not describe this curve (short, leakage, series resistance, breakdown or another conduction mechanism)"));
+                diagnoses.Add("ohmic");
+                warnings.Add($"linear: the curve is nearly a straight line ({OhmicText()}); the barrier is pinned only by a small curvature");
+            }
+            if (systematic is double sys && sys > options.MisfitTolerance)
+            {
+                string misfitText = ($"misfit: the model misses the curve by {sys * 100:0.#} % RMS in current beyond the point-to-point noise " +
+                     $"({relNoise * 100:0.##} %), more than the tolerance of {options.MisfitTolerance * 100:0.#} % (--misfit-tolerance); " +
+                     "another conduction mechanism, a leak or series resistance (--free leakage-conductance, --free series-resistance), " +
+                     "or only one branch follows the model (--bias-window, --polarity)");
+                warnings.Add(misfitText);
+                Poor(misfitText);
+            }
+            else if (systematic is double small && small > 0 && noiseEstimated)
+            {
+                // Small but systematic: a note, not a poor fit (common practice, no source).
+                double exactRms = logRms ?? 0;
+                bool exact = exactRms < ExactFitLogResidual;
+                double z = exact ? 0.0 : RunsTestZ(curve.VoltageV.AsSpan(), best.Residuals.AsSpan(), used);
+                if (z < RunsTestCriticalZ)
+                {
+                    warnings.Add($"small systematic misfit: {small * 100:0.#} % RMS beyond the noise, within the tolerance of " +
+                                 $"{options.MisfitTolerance * 100:0.#} %; the residual signs form fewer runs than noise would (runs test z = {z:0.0})");
+                }
             }
             if (noiseKnown && dof > 0)
             {
                 double limit = ChiSquared.InvCDF(dof, 0.999) / dof;
                 if (reducedChi2 > limit)
                 {
-                    status = FitStatus.PoorFit;
                     warnings.Add((
-                        $"reduced chi-square {reducedChi2:0.###} exceeds {limit:0.###}, the 99.9 % limit for the stated noise: the model or the noise model does not describe the data"));
+                        $"reduced chi-square {reducedChi2:0.###} exceeds {limit:0.###}, the 99.9 % limit for the stated noise (--noise): the residuals " +
+                        "are larger than that noise"));
                 }
             }
+            TradeOffWarning(model, freeIndex, thetaHat, corr, undetermined, warnings, diagnoses);
         }
         if (noise.MaskNotes.Count > 0)
         {
             warnings.Add($"{masked} of {n} points were left out: {string.Join("; ", noise.MaskNotes)}");
         }
-        if (!noiseKnown && noise.EstimatedRelative is not null && reducedChi2 > EstimatedNoiseChiSquareWarning && status == FitStatus.Ok
-            && noise.EstimatedRelative > NoiseEstimator.SmallestEstimate)
+        if (noise.SettlingIndices.Length > 0) diagnoses.Add("settling");
+        if (noise.Floor.FloorA > 0 && (noise.DownWeighted > 0 || noise.BelowFloor > 0))
         {
-            warnings.Add($"the residual scatter is {Math.Sqrt(reducedChi2.Value):0.#} times the point-to-point noise of the data: the model misses " +
-                         "structure in the curve, or the noise is not proportional to the current (give --noise and --noise-floor)");
+            warnings.Add($"noise floor {noise.Floor.Describe()}: {noise.DownWeighted} point(s) down-weighted, {noise.BelowFloor} at or below 3x the floor left out");
         }
         foreach (var w in model.CheckValidity(maxAbsV, thetaHat)) warnings.Add(w);
         int areaK = model.AreaIndex;
@@ -376,7 +486,18 @@ public static class JunctionFitter
             Error = error,
             Warnings = warnings.ToImmutable(),
             Parameters = estimates.MoveToImmutable(),
-            Quality = new FitQuality(usedCount, masked, best.Iterations, rss, reducedChi2, best.Converged, best.Reason, scaling, intervalMethod),
+            StatusReason = status == FitStatus.Ok ? null : reason ?? error,
+            Diagnoses = [.. diagnoses],
+            Quality = new FitQuality(usedCount, masked, best.Iterations, rss, reducedChi2, best.Converged, best.Reason, scaling, intervalMethod)
+            {
+                NoiseFloorA = noise.Floor.FloorA,
+                NoiseFloorDescription = noise.Floor.Describe(),
+                PointsDownWeighted = noise.DownWeighted,
+                RelativeNoise = noiseEstimated ? relNoise : null,
+                LogResidualRms = logRms,
+                SystematicMisfit = systematic,
+                MisfitTolerance = options.MisfitTolerance,
+            },
             CorrelationKeys = keys.MoveToImmutable(),
             CorrelationRowMajor = corr.ToImmutable(),
             Curve = new CurveSnapshot(curve.VoltageV, curve.CurrentA, ImmutableArray.Create(modelCurrent),
@@ -392,6 +513,34 @@ public static class JunctionFitter
     }
 
     private static bool isFreeArea(JunctionCurrentModel model, int[] freeIndex) => Array.IndexOf(freeIndex, model.AreaIndex) >= 0;
+
+    private static string FormatOhm(double r) => r >= 1e6 ? $"{r / 1e6:G3} MΩ" : r >= 1e3 ? $"{r / 1e3:G3} kΩ" : $"{r:G3} Ω";
+
+    /// <summary>
+    /// With the mass ratio free, m*, φ and d trade off: in the direct-tunnelling exponent they enter as d·√(m*·φ), and only the
+    /// weak curvature of I(V) separates them. Says so, by name, when they are strongly correlated or one ran to an edge.
+    /// </summary>
+    private static void TradeOffWarning(JunctionCurrentModel model, int[] freeIndex, double[] thetaHat, ImmutableArray<double>.Builder corr,
+        List<int> undetermined, ImmutableArray<string>.Builder warnings, List<string> diagnoses)
+    {
+        int mass = model.IndexOf(StandardParameters.MassRatio.Key);
+        if (mass < 0 || Array.IndexOf(freeIndex, mass) < 0) return;
+        int nFree = freeIndex.Length;
+        double strongest = 0;
+        int jm = Array.IndexOf(freeIndex, mass);
+        if (corr.Count == nFree * nFree)
+        {
+            for (int b = 0; b < nFree; b++) if (b != jm && freeIndex[b] != model.AreaIndex) strongest = Math.Max(strongest, Math.Abs(corr[jm * nFree + b]));
+        }
+        if (undetermined.Count == 0 && strongest <= CorrelationWarningThreshold) return;
+        diagnoses.Add("trade-off");
+        warnings.Add("trade-off: the effective mass ratio, barrier height and thickness enter the tunnelling exponent together as d·√(m*·φ); " +
+                     $"with all three free these data cannot separate them (largest correlation with m* {strongest:0.000}" +
+                     (undetermined.Count > 0 ? ", and the fit ran to the edge of the physical range" : "") +
+                     "). Keep the mass ratio fixed (leave out --free mass-ratio; set --mass-ratio from the literature for this barrier) or fix " +
+                     "the thickness from ellipsometry (--fix thickness=NM)");
+        _ = thetaHat;
+    }
 
     /// <summary>
     /// Data-driven starts for free parasitic elements without a given start: a parallel leak at 10 % of the smallest
@@ -469,7 +618,7 @@ public static class JunctionFitter
     /// <see cref="GridPoints"/> points spread evenly over the curve, with the area profiled out in closed form when it is
     /// free. Returns the best <paramref name="count"/> grid points that are not grid neighbours of a better one.
     /// </summary>
-    private static List<double[]> GridStarts(JunctionCurrentModel model, double[] template, bool[] isFree,
+    internal static List<double[]> GridStarts(JunctionCurrentModel model, double[] template, bool[] isFree,
         double[] vAll, double[] yAll, double[] invSigmaAll, int count)
     {
         int phiIndex = model.IndexOf(StandardParameters.BarrierHeight.Key);

@@ -24,15 +24,58 @@ public static class NoiseEstimator
     /// <param name="voltageV">Bias of each point (any order).</param>
     /// <param name="logAbsCurrent">ln|I| of each point.</param>
     public static double? RelativeNoise(ReadOnlySpan<double> voltageV, ReadOnlySpan<double> logAbsCurrent)
+        => RelativeNoise(voltageV, logAbsCurrent, default);
+
+    /// <summary>
+    /// The relative noise r of ln|I| against V, with the triples formed within each group (for example each sweep
+    /// direction, so that hysteresis between a rising and a falling sweep is not taken for noise); null when there are too
+    /// few points.
+    /// </summary>
+    /// <param name="voltageV">Bias of each point (any order).</param>
+    /// <param name="logAbsCurrent">ln|I| of each point.</param>
+    /// <param name="groups">Group label of each point, or empty for one group.</param>
+    public static double? RelativeNoise(ReadOnlySpan<double> voltageV, ReadOnlySpan<double> logAbsCurrent, ReadOnlySpan<sbyte> groups)
     {
         if (voltageV.Length != logAbsCurrent.Length) throw new ArgumentException("voltage and current lengths differ");
+        if (!groups.IsEmpty && groups.Length != voltageV.Length) throw new ArgumentException("group labels and points differ in length");
         int m = voltageV.Length;
         if (m < MinimumTriples + 2) return null;
-        var v = voltageV.ToArray();
-        var y = logAbsCurrent.ToArray();
-        Array.Sort(v, y);
         var scaled = new double[m];
         int count = 0;
+        if (groups.IsEmpty)
+        {
+            count = AddTriples(voltageV.ToArray(), logAbsCurrent.ToArray(), scaled, 0);
+        }
+        else
+        {
+            Span<sbyte> labels = stackalloc sbyte[] { -1, 0, 1 };
+            foreach (sbyte label in labels)
+            {
+                int size = 0;
+                foreach (sbyte g in groups) if (g == label) size++;
+                if (size < 3) continue;
+                var v = new double[size];
+                var y = new double[size];
+                for (int i = 0, u = 0; i < m; i++)
+                {
+                    if (groups[i] != label) continue;
+                    v[u] = voltageV[i];
+                    y[u++] = logAbsCurrent[i];
+                }
+                count = AddTriples(v, y, scaled, count);
+            }
+        }
+        if (count < MinimumTriples) return null;
+        Array.Sort(scaled, 0, count);
+        double median = count % 2 == 1 ? scaled[count / 2] : 0.5 * (scaled[count / 2 - 1] + scaled[count / 2]);
+        return Math.Max(1.4826 * median, SmallestEstimate);
+    }
+
+    /// <summary>Sorts (v, y) by v and appends the scaled second differences of its triples to <paramref name="scaled"/>.</summary>
+    private static int AddTriples(double[] v, double[] y, double[] scaled, int count)
+    {
+        int m = v.Length;
+        Array.Sort(v, y);
         for (int i = 1; i < m - 1; i++)
         {
             double v0 = v[i - 1], v1 = v[i], v2 = v[i + 1];
@@ -42,9 +85,6 @@ public static class NoiseEstimator
             double e = y[i] - (wl * y[i - 1] + wr * y[i + 1]);
             scaled[count++] = Math.Abs(e) / Math.Sqrt(1.0 + wl * wl + wr * wr);
         }
-        if (count < MinimumTriples) return null;
-        Array.Sort(scaled, 0, count);
-        double median = count % 2 == 1 ? scaled[count / 2] : 0.5 * (scaled[count / 2 - 1] + scaled[count / 2]);
-        return Math.Max(1.4826 * median, SmallestEstimate);
+        return count;
     }
 }

@@ -24,12 +24,20 @@ internal readonly record struct DisplayQuantity(
             factor = 1e12; // m² → µm²
             unit = "µm²";
         }
+        string? undetermined = !p.IsUndetermined ? null
+            : p.Bound is { } b ? $"{(b.IsLower ? "≥" : "≤")} {FormatGeneral(b.Value * factor)}" : "undetermined";
         return new DisplayQuantity(
-            p.Key, p.Symbol, unit, p.Value * factor, p.StandardError * factor, p.Lower95 * factor, p.Upper95 * factor, p.IsFixed);
+            p.Key, p.Symbol, unit, p.Value * factor, p.StandardError * factor, p.Lower95 * factor, p.Upper95 * factor, p.IsFixed)
+        {
+            Undetermined = undetermined,
+        };
     }
 
     /// <summary>True when both interval ends are known and finite.</summary>
-    public bool HasInterval => Lower95 is double lo && Upper95 is double hi && double.IsFinite(lo) && double.IsFinite(hi);
+    /// <summary>For a parameter the data do not determine: its one-sided bound ("≥ 1.2") or "undetermined"; otherwise null.</summary>
+    public string? Undetermined { get; init; }
+
+    public bool HasInterval => Undetermined is null && Lower95 is double lo && Upper95 is double hi && double.IsFinite(lo) && double.IsFinite(hi);
 
     /// <summary>Decimal places that show the interval's half-width to two significant figures (null: use general format).</summary>
     public int? Decimals
@@ -50,7 +58,7 @@ internal readonly record struct DisplayQuantity(
     }
 
     /// <summary>The value alone, with as many digits as its interval justifies.</summary>
-    public string ValueText => Format(Value, Decimals);
+    public string ValueText => Undetermined ?? Format(Value, Decimals);
 
     /// <summary>A number in the chosen format (invariant culture).</summary>
     public string Format(double x) => Format(x, Decimals);

@@ -35,6 +35,7 @@ public static class FitJsonFormatter
         w.WriteString("model", result.Model);
         w.WriteString("status", StatusText(result.Status));
         if (result.Error is null) w.WriteNull("error"); else w.WriteString("error", result.Error);
+        WriteStringOrNull(w, "status_reason", result.StatusReason);
         w.WriteStartArray("warnings");
         foreach (var warning in result.Warnings) w.WriteStringValue(warning);
         w.WriteEndArray();
@@ -63,6 +64,13 @@ public static class FitJsonFormatter
             w.WriteString("stop_reason", q.StopReason);
             w.WriteString("covariance_scaling", q.CovarianceScaling);
             w.WriteString("interval_method", q.IntervalMethod);
+            w.WriteNumber("noise_floor_A", q.NoiseFloorA);
+            WriteStringOrNull(w, "noise_floor", q.NoiseFloorDescription);
+            w.WriteNumber("points_down_weighted", q.PointsDownWeighted);
+            WriteNumberOrNull(w, "relative_noise", q.RelativeNoise);
+            WriteNumberOrNull(w, "log_residual_rms", q.LogResidualRms);
+            WriteNumberOrNull(w, "systematic_misfit", q.SystematicMisfit);
+            WriteNumberOrNull(w, "misfit_tolerance", q.MisfitTolerance);
         }
         else
         {
@@ -93,6 +101,44 @@ public static class FitJsonFormatter
         w.WriteEndArray();
         w.WriteEndObject();
 
+        w.WriteStartArray("diagnoses");
+        foreach (string d in result.Diagnoses) w.WriteStringValue(d);
+        w.WriteEndArray();
+        if (result.Hysteresis is { } h)
+        {
+            w.WriteStartObject("hysteresis");
+            w.WriteNumber("rising_points", h.RisingPoints);
+            w.WriteNumber("falling_points", h.FallingPoints);
+            WriteNumberOrNull(w, "log_current_rms", h.LogCurrentRms);
+            w.WriteBoolean("significant", h.Significant);
+            w.WriteStartObject("rising_minus_falling");
+            foreach (var d in h.Differences)
+            {
+                w.WriteStartObject(d.Key);
+                WriteNumberOrNull(w, "rising", d.Rising);
+                WriteNumberOrNull(w, "falling", d.Falling);
+                WriteNumberOrNull(w, "difference", d.Difference);
+                WriteNumberOrNull(w, "stderr", d.StandardError);
+                if (d.Interval95 is (double lo, double hi))
+                {
+                    w.WriteStartArray("ci95");
+                    w.WriteNumberValue(lo);
+                    w.WriteNumberValue(hi);
+                    w.WriteEndArray();
+                }
+                else
+                {
+                    w.WriteNull("ci95");
+                }
+                w.WriteEndObject();
+            }
+            w.WriteEndObject();
+            w.WriteEndObject();
+        }
+        else
+        {
+            w.WriteNull("hysteresis");
+        }
         WriteStringOrNull(w, "model_validity", result.ModelValidity);
         WriteNumberOrNull(w, "transition_voltage_V", result.TransitionVoltageV);
         WriteNumberOrNull(w, "transition_voltage_negative_V", result.TransitionVoltageNegativeV);
@@ -134,7 +180,15 @@ public static class FitJsonFormatter
         w.WriteStartObject(p.Key);
         WriteNumberOrNull(w, "value", p.Value);
         WriteNumberOrNull(w, "stderr", p.StandardError);
-        if (p.Lower95 is double lo && p.Upper95 is double hi && double.IsFinite(lo) && double.IsFinite(hi))
+        if (p.Bound is { } bound)
+        {
+            // One-sided: [limit, null] for "at least", [null, limit] for "at most".
+            w.WriteStartArray("ci95");
+            if (bound.IsLower) { w.WriteNumberValue(bound.Value); w.WriteNullValue(); }
+            else { w.WriteNullValue(); w.WriteNumberValue(bound.Value); }
+            w.WriteEndArray();
+        }
+        else if (p.Lower95 is double lo && p.Upper95 is double hi && double.IsFinite(lo) && double.IsFinite(hi))
         {
             w.WriteStartArray("ci95");
             w.WriteNumberValue(lo);
@@ -146,6 +200,15 @@ public static class FitJsonFormatter
             w.WriteNull("ci95");
         }
         w.WriteBoolean("fixed", p.IsFixed);
+        if (p.IsUndetermined)
+        {
+            w.WriteBoolean("undetermined", true);
+            if (p.Bound is { } b)
+            {
+                w.WriteString("bound", b.IsLower ? "lower" : "upper");
+                w.WriteString("bound_method", b.Method);
+            }
+        }
         w.WriteEndObject();
     }
 

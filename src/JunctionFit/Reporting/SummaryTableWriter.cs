@@ -144,7 +144,7 @@ public static class SummaryTableWriter
                 SummaryRow.ChiText(r).Replace("—", "-", StringComparison.Ordinal),
                 SummaryRow.TransitionText(r).Replace("—", "-", StringComparison.Ordinal),
                 r.Warnings.Length.ToString(Inv),
-                r.Status == FitStatus.Failed ? OneLine(r.Error ?? "failed") : "",
+                r.Status == FitStatus.Ok ? "" : OneLine(r.StatusReason ?? r.Error ?? FitPlotRenderer.StatusText(r.Status)),
             ]);
         }
         var width = new int[header.Length];
@@ -182,7 +182,8 @@ public static class SummaryTableWriter
     private static string ConsoleQuantity(FitResult r, string key)
     {
         if (r.Status == FitStatus.Failed) return "-";
-        return SummaryRow.Quantity(r, key) is { } q ? q.Compact.Replace("−", "-", StringComparison.Ordinal).Replace("∞", "inf", StringComparison.Ordinal) : "-";
+        return SummaryRow.Quantity(r, key) is { } q ? q.Compact.Replace("−", "-", StringComparison.Ordinal).Replace("∞", "inf", StringComparison.Ordinal)
+            .Replace("≥", ">=", StringComparison.Ordinal).Replace("≤", "<=", StringComparison.Ordinal) : "-";
     }
 
     private static string ShortenLeft(string text, int max)

@@ -25,7 +25,46 @@ public enum FitStatus
 /// <param name="Upper95">Upper end of the 95 % interval.</param>
 /// <param name="IsFixed">True when held fixed during the fit.</param>
 public sealed record ParameterEstimate(
-    string Key, string Symbol, string Unit, double Value, double? StandardError, double? Lower95, double? Upper95, bool IsFixed);
+    string Key, string Symbol, string Unit, double Value, double? StandardError, double? Lower95, double? Upper95, bool IsFixed)
+{
+    /// <summary>
+    /// Set when the data do not determine the parameter (it ran to the edge of its physical range): <see cref="Value"/> is
+    /// NaN, and the bound says how far the data constrain it from one side.
+    /// </summary>
+    public OneSidedBound? Bound { get; init; }
+
+    /// <summary>True when the data do not determine this parameter (see <see cref="Bound"/>).</summary>
+    public bool IsUndetermined => !IsFixed && double.IsNaN(Value);
+}
+
+/// <summary>A one-sided 95 % limit on a parameter that the data do not determine, in its display unit.</summary>
+/// <param name="Value">The limit.</param>
+/// <param name="IsLower">True for "at least Value" (the parameter ran high), false for "at most Value".</param>
+/// <param name="Method">How the limit was found, in words.</param>
+public sealed record OneSidedBound(double Value, bool IsLower, string Method);
+
+/// <summary>The two sweep directions of a curve fitted separately (hysteresis).</summary>
+/// <param name="RisingPoints">Points fitted of the rising-bias sweep.</param>
+/// <param name="FallingPoints">Points fitted of the falling-bias sweep.</param>
+/// <param name="LogCurrentRms">RMS of ln(I_rising/I_falling) at the biases measured in both directions; null when none is shared.</param>
+/// <param name="Differences">Rising minus falling for every parameter fitted in both.</param>
+/// <param name="Significant">True when the directions differ beyond the noise (reported as a warning).</param>
+public sealed record HysteresisReport(int RisingPoints, int FallingPoints, double? LogCurrentRms,
+    ImmutableArray<DirectionDifference> Differences, bool Significant);
+
+/// <summary>One parameter fitted on each sweep direction, in its display unit.</summary>
+/// <param name="Key">Parameter key.</param>
+/// <param name="Rising">Estimate on the rising-bias sweep.</param>
+/// <param name="Falling">Estimate on the falling-bias sweep.</param>
+/// <param name="StandardError">Standard error of the difference, √(SE₁² + SE₂²), when both are known.</param>
+public sealed record DirectionDifference(string Key, double Rising, double Falling, double? StandardError)
+{
+    /// <summary>Rising minus falling.</summary>
+    public double Difference => Rising - Falling;
+
+    /// <summary>95 % interval of the difference (normal approximation), when the standard error is known.</summary>
+    public (double Lower, double Upper)? Interval95 => StandardError is double se ? (Difference - 1.96 * se, Difference + 1.96 * se) : null;
+}
 
 /// <summary>Figures of merit of a fit.</summary>
 /// <param name="PointsUsed">Points that entered the residuals.</param>
@@ -39,7 +78,29 @@ public sealed record ParameterEstimate(
 /// <param name="IntervalMethod">How the 95 % intervals were computed.</param>
 public sealed record FitQuality(
     int PointsUsed, int PointsMasked, int Iterations, double ResidualSumOfSquares, double? ReducedChiSquare,
-    bool Converged, string StopReason, string CovarianceScaling, string IntervalMethod);
+    bool Converged, string StopReason, string CovarianceScaling, string IntervalMethod)
+{
+    /// <summary>Current noise floor σ_floor used in the weights, in ampere.</summary>
+    public double NoiseFloorA { get; init; }
+
+    /// <summary>Where the floor came from, in words (for example "1.0e-13 A (estimated from 3 readings at zero bias)").</summary>
+    public string? NoiseFloorDescription { get; init; }
+
+    /// <summary>Used points whose weight the floor dominates (σ_floor/|I| larger than the relative noise).</summary>
+    public int PointsDownWeighted { get; init; }
+
+    /// <summary>Relative noise r used in the weights (stated, or estimated from the point-to-point scatter).</summary>
+    public double? RelativeNoise { get; init; }
+
+    /// <summary>RMS of the ln|I| residuals of the used points (weighted as in the fit, normalised to the relative noise).</summary>
+    public double? LogResidualRms { get; init; }
+
+    /// <summary>Systematic misfit: √(RMS² − r²), the part of the residual scatter beyond the point-to-point noise.</summary>
+    public double? SystematicMisfit { get; init; }
+
+    /// <summary>The tolerance on <see cref="SystematicMisfit"/> that the status rule used.</summary>
+    public double? MisfitTolerance { get; init; }
+}
 
 /// <summary>The data and the model along the measured voltages, for plots. A snapshot.</summary>
 /// <param name="VoltageV">Bias in volt.</param>
@@ -68,6 +129,15 @@ public sealed record FitResult
 
     /// <summary>Why the fit failed, in words a user can act on; null unless failed.</summary>
     public string? Error { get; init; }
+
+    /// <summary>Why the status is not ok, in one sentence a user can act on (for failed fits the same as <see cref="Error"/>).</summary>
+    public string? StatusReason { get; init; }
+
+    /// <summary>Short names of what the diagnoses found (ohmic, shorted, open, units, hysteresis, settling, undetermined, trade-off).</summary>
+    public ImmutableArray<string> Diagnoses { get; init; } = [];
+
+    /// <summary>Separate fits of the two sweep directions, when the curve has both.</summary>
+    public HysteresisReport? Hysteresis { get; init; }
 
     /// <summary>Warnings in words (regime, identifiability, masked points, misfit).</summary>
     public ImmutableArray<string> Warnings { get; init; } = [];
@@ -128,6 +198,7 @@ public sealed record FitResult
         Model = model,
         Status = FitStatus.Failed,
         Error = error,
+        StatusReason = error,
     };
 }
 

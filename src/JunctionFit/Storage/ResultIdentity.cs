@@ -15,7 +15,7 @@ namespace JunctionFit.Storage;
 public static class ResultIdentity
 {
     /// <summary>First line of the canonical options text; bump it when the meaning of a line changes.</summary>
-    public const string OptionsFormat = "junctionfit-fit-options/1";
+    public const string OptionsFormat = "junctionfit-fit-options/2";
 
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
@@ -60,6 +60,12 @@ public static class ResultIdentity
         lines.Add("compliance_A", Number(options.ComplianceA));
         lines.Add("fix_area_from_metadata", options.FixAreaFromMetadata ? "true" : "false");
         lines.Add("starts", options.Starts.ToString(Inv));
+        lines.Add("bias_window_low_V", Number(options.BiasWindowLowV));
+        lines.Add("bias_window_high_V", Number(options.BiasWindowHighV));
+        lines.Add("sweep_direction", options.SweepDirection.ToString(Inv));
+        lines.Add("misfit_tolerance", Number(options.MisfitTolerance));
+        lines.Add("keep_settling", options.KeepSettling ? "true" : "false");
+        lines.Add("direction_fits", options.DirectionFits ? "true" : "false");
         var s = options.Solver;
         lines.Add("solver.max_iterations", s.MaxIterations.ToString(Inv));
         lines.Add("solver.max_function_evaluations", s.MaxFunctionEvaluations is int m ? m.ToString(Inv) : "");

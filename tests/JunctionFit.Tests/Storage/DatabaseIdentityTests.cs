@@ -59,6 +59,12 @@ public sealed class DatabaseIdentityTests
             FitOptions.Default with { ComplianceA = 1e-3 },
             FitOptions.Default with { FixAreaFromMetadata = true },
             FitOptions.Default with { Starts = 5 },
+            FitOptions.Default with { BiasWindowLowV = 0.1 },
+            FitOptions.Default with { BiasWindowHighV = 0.1 },
+            FitOptions.Default with { SweepDirection = -1 },
+            FitOptions.Default with { MisfitTolerance = 0.1 },
+            FitOptions.Default with { KeepSettling = true },
+            FitOptions.Default with { DirectionFits = false },
             FitOptions.Default with { Solver = FitOptions.DefaultSolver with { MaxIterations = 10 } },
             FitOptions.Default with { Solver = FitOptions.DefaultSolver with { MaxFunctionEvaluations = 100 } },
             FitOptions.Default with { Solver = FitOptions.DefaultSolver with { RelativeReductionTolerance = 1e-8 } },
@@ -77,7 +83,8 @@ public sealed class DatabaseIdentityTests
     {
         // When FitOptions or the solver options gain a property, decide whether it changes a fit's outcome; if it does,
         // write it in ResultIdentity.CanonicalOptions (stored results then count as stale), then list it here.
-        string[] fit = ["ComplianceA", "FixAreaFromMetadata", "FixedValues", "FreedKeys", "NoiseFloorA", "RelativeNoise", "Solver", "StartValues", "Starts"];
+        string[] fit = ["BiasWindowHighV", "BiasWindowLowV", "ComplianceA", "DirectionFits", "FixAreaFromMetadata", "FixedValues", "FreedKeys",
+            "KeepSettling", "MisfitTolerance", "NoiseFloorA", "RelativeNoise", "Solver", "StartValues", "Starts", "SweepDirection"];
         string[] solver = ["GradientTolerance", "InitialStepFactor", "MaxFunctionEvaluations", "MaxIterations", "RelativeReductionTolerance", "StepTolerance"];
         Assert.Equal(fit, InstanceProperties(typeof(FitOptions)));
         Assert.Equal(solver, InstanceProperties(typeof(LevenbergMarquardtOptions)));
