@@ -117,6 +117,7 @@ public static class BootstrapIntervals
         var draws = new double[freeIndex.Count][];
         for (int f = 0; f < draws.Length; f++) draws[f] = new double[replicates];
         var ok = new bool[replicates];
+        var replicateOptions = options with { DirectionFits = false };
         Parallel.For(0, replicates, b =>
         {
             var rng = new Random(seeds[b]);
@@ -127,7 +128,7 @@ public static class BootstrapIntervals
                 double fitted = snapshot.ModelCurrentA[i];
                 current[i] = Math.Sign(fitted) * Math.Exp(Math.Log(Math.Abs(fitted)) + scale[j] * u[rng.Next(m)]);
             }
-            var replicate = JunctionFitter.Fit(WithCurrent(curve, current), model, options);
+            var replicate = JunctionFitter.Fit(WithCurrent(curve, current), model, replicateOptions);
             if (replicate.Status == FitStatus.Failed || replicate.Parameters.Length != defs.Count) return;
             for (int f = 0; f < freeIndex.Count; f++)
             {

@@ -217,6 +217,7 @@ public static class ProfileLikelihoodIntervals
             {
                 FixedValues = options.FixedValues.SetItem(_def.Key, theta),
                 StartValues = starts.ToImmutable(),
+                DirectionFits = false,
             };
             var refit = JunctionFitter.Fit(curve, model, refitOptions);
             Refits++;
