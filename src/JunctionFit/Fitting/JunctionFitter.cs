@@ -450,6 +450,14 @@ public static class JunctionFitter
             }
             TradeOffWarning(model, freeIndex, thetaHat, corr, undetermined, warnings, diagnoses);
         }
+        if (status == FitStatus.Failed)
+        {
+            // A failed fit has no estimate: its free parameters carry no value (never an edge value such as 1e4 eV).
+            for (int k = 0; k < p; k++)
+            {
+                if (Array.IndexOf(freeIndex, k) >= 0) estimates[k] = estimates[k] with { Value = double.NaN, StandardError = null, Lower95 = null, Upper95 = null };
+            }
+        }
         if (noise.MaskNotes.Count > 0)
         {
             warnings.Add($"{masked} of {n} points were left out: {string.Join("; ", noise.MaskNotes)}");
