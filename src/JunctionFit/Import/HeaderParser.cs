@@ -135,6 +135,12 @@ internal static class HeaderParser
     {
         string text = rawText.Trim();
         (string name, string? unitText) = SplitNameUnit(text);
+        if (unitText is not null && NormalizeName(name) is "abs" or "absolute" or "mag" or "magnitude")
+        {
+            // "abs(I)", "mag[J]": the bracket holds the quantity, not a unit.
+            name = text;
+            unitText = null;
+        }
         string? fromRow = unitRowText?.Trim();
         if (unitText is null && !string.IsNullOrEmpty(fromRow))
         {
