@@ -61,6 +61,7 @@ public sealed record ImportDescription
         TotalSegments = o.TotalSegments;
         TraceCount = o.TraceCount;
         AreaSource = o.AreaSource;
+        StartVoltageV = o.StartVoltageV;
         Segments = BuildSegments(o.Curve);
     }
 
@@ -130,6 +131,9 @@ public sealed record ImportDescription
     /// </summary>
     public int TraceCount { get; }
 
+    /// <summary>The first bias of the whole sweep (before any segment selection), in volt.</summary>
+    public double StartVoltageV { get; }
+
     /// <summary>Where <see cref="IvCurve.AreaM2"/> came from (the option, the file's area line, I/J of two columns), or null.</summary>
     public string? AreaSource { get; }
 
@@ -192,7 +196,7 @@ public sealed record ImportDescription
             lines.Add(string.Create(inv, $"  {col.Number}: {header} -> {role}{(col.Unit is null ? string.Empty : $" [{col.Unit}]")}{why}"));
         }
         lines.Add(TraceCount > 1
-            ? string.Create(inv, $"traces: {TraceCount} (the sweep returns to its start bias {c.VoltageV[0]:G6} V and repeats)")
+            ? string.Create(inv, $"traces: {TraceCount} (the sweep returns to its start bias {StartVoltageV:G6} V and repeats)")
             : "traces: 1");
         lines.Add(string.Create(inv, $"segments: {Segments.Length} kept of {TotalSegments}"));
         foreach (ImportSegment s in Segments)

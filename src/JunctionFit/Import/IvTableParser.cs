@@ -27,7 +27,8 @@ internal sealed record ParseOutcome(
     int MaskedPoints,
     int TotalSegments,
     int TraceCount,
-    string? AreaSource);
+    string? AreaSource,
+    double StartVoltageV);
 
 /// <summary>
 /// The importer's pipeline: decode → split lines → find the table (delimiter, first data row) →
@@ -524,7 +525,7 @@ internal static class IvTableParser
             {
                 if (c < 0)
                 {
-                    c = ChooseCurrent(header, v, knownArea, line, out currentNote, notes);
+                    c = ChooseCurrent(header, v, line, out currentNote, notes);
                 }
                 if (v < 0)
                 {
@@ -746,7 +747,7 @@ internal static class IvTableParser
         /// The current column: the signed current (the gate current among transistor terminal currents),
         /// else |I|, else the signed density when the area is known, else |J| likewise, else any density.
         /// </summary>
-        private int ChooseCurrent(List<HeaderField> header, int v, double? knownArea, int line, out string note, List<string> notes)
+        private int ChooseCurrent(List<HeaderField> header, int v, int line, out string note, List<string> notes)
         {
             note = string.Empty;
             var signed = header.FindAll(f => f.Kind == IvColumnKind.Current && f.Index != v);
@@ -774,14 +775,12 @@ internal static class IvTableParser
                 note = "; no signed current column";
                 return abs;
             }
-            if (knownArea is not null || !header.Exists(f => f.Kind == IvColumnKind.AbsoluteCurrentDensity))
+            // A density needs the area; without one, reading it fails below with a message that says so.
+            int j = Best(header, f => f.Kind == IvColumnKind.CurrentDensity, "current density", v, line);
+            if (j >= 0)
             {
-                int j = Best(header, f => f.Kind == IvColumnKind.CurrentDensity, "current density", v, line);
-                if (j >= 0)
-                {
-                    note = "; no current column";
-                    return j;
-                }
+                note = "; no current column";
+                return j;
             }
             int absJ = Best(header, f => f.Kind == IvColumnKind.AbsoluteCurrentDensity, "|J|", v, line);
             if (absJ >= 0)
@@ -1141,6 +1140,7 @@ internal static class IvTableParser
             int[] segments = SweepAnalysis.Segments(v);
             int totalSegments = n == 0 ? 0 : segments[n - 1] + 1;
             _ = SweepAnalysis.Traces(v, out int traceCount);
+            double startV = data.V[0]; // before a segment selection compacts the arrays
             (double? areaM2, string? areaSource) = ResolveArea(data, plan, meta);
             bool[] mask;
             int masked = 0;
@@ -1249,7 +1249,8 @@ internal static class IvTableParser
                 masked,
                 totalSegments,
                 traceCount,
-                areaSource);
+                areaSource,
+                startV);
         }
 
         /// <summary>
