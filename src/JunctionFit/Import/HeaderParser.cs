@@ -18,10 +18,67 @@ public enum IvColumnRole
     CurrentDensity,
 }
 
-/// <summary>One header cell split into name and unit, with the role its name or unit suggests.</summary>
-internal sealed record HeaderField(int Index, string Text, string Name, string? UnitText, UnitScale? Unit, IvColumnRole Role, int Rank);
+/// <summary>What a column holds, as far as its header name and unit tell.</summary>
+public enum IvColumnKind
+{
+    /// <summary>Not recognised.</summary>
+    Unknown,
 
-/// <summary>Reads header cells: <c>Voltage (V)</c>, <c>I [nA]</c>, <c>V/mV</c>, <c>I_uA</c>, <c>J (A/cm²)</c>, <c>mV</c>.</summary>
+    /// <summary>A voltage (bias).</summary>
+    Voltage,
+
+    /// <summary>A signed current.</summary>
+    Current,
+
+    /// <summary>A signed current density.</summary>
+    CurrentDensity,
+
+    /// <summary>The magnitude of the current, |I|.</summary>
+    AbsoluteCurrent,
+
+    /// <summary>The magnitude of the current density, |J|.</summary>
+    AbsoluteCurrentDensity,
+
+    /// <summary>Time (ignored).</summary>
+    Time,
+
+    /// <summary>A point index or counter (ignored).</summary>
+    Index,
+
+    /// <summary>A capacitance (a C–V file, not an I–V one).</summary>
+    Capacitance,
+
+    /// <summary>Another quantity with a known unit (temperature, resistance …; ignored).</summary>
+    Other,
+}
+
+/// <summary>One header cell split into name and unit, with what its name or unit suggests.</summary>
+/// <param name="Index">0-based column.</param>
+/// <param name="Text">The cell as written (trimmed).</param>
+/// <param name="Name">The name without its unit.</param>
+/// <param name="UnitText">The unit as written, if any.</param>
+/// <param name="Unit">The unit, if the importer knows it.</param>
+/// <param name="Role">The role the column can take directly (voltage, current, density) or <see cref="IvColumnRole.Ignored"/>.</param>
+/// <param name="Rank">Preference among columns of one kind: lower wins; 0–99 exact names, 500 loose names, 1000 by unit.</param>
+internal sealed record HeaderField(int Index, string Text, string Name, string? UnitText, UnitScale? Unit, IvColumnRole Role, int Rank)
+{
+    /// <summary>What the column holds.</summary>
+    public IvColumnKind Kind { get; init; }
+
+    /// <summary>How the kind was recognised, in words (for inspect).</summary>
+    public string How { get; init; } = string.Empty;
+
+    /// <summary>True when the kind came from a loose rule (a suffix dropped, a name prefix, only the unit).</summary>
+    public bool Loose { get; init; }
+
+    /// <summary>The normalised name key (lower-case letters and digits, numeric suffixes dropped).</summary>
+    public string Key { get; init; } = string.Empty;
+}
+
+/// <summary>
+/// Reads header cells: <c>Voltage (V)</c>, <c>I [nA]</c>, <c>V/mV</c>, <c>I_uA</c>, <c>J (A/cm²)</c>, <c>mV</c>,
+/// <c>voltage_1_1</c>, <c>absJ_1_2_11</c>, <c>|I|</c>, <c>Time (s)</c>, <c>#</c>.
+/// </summary>
 internal static class HeaderParser
 {
     // Names in order of preference; the first match among the columns wins (lower rank).
@@ -30,13 +87,14 @@ internal static class HeaderParser
         "v", "voltage", "bias", "vbias", "biasvoltage", "vapplied", "appliedvoltage", "appliedbias",
         "vforce", "forcevoltage", "vset", "vsource", "sourcevoltage", "vd", "vdrain", "drainvoltage",
         "vds", "vsd", "vtop", "vsweep", "sweepvoltage", "u", "ubias", "vin", "vs", "vmeas",
-        "vmeasured", "measuredvoltage", "volt", "volts", "voltagev",
+        "vmeasured", "measuredvoltage", "volt", "volts", "voltagev", "vg", "vgate", "gatevoltage", "vgs", "vgb",
     ];
 
     private static readonly string[] CurrentNames =
     [
         "i", "current", "imeas", "imeasured", "measuredcurrent", "id", "idrain", "draincurrent",
         "ids", "isd", "itop", "ia", "isense", "junctioncurrent", "currenta", "amps", "ampere",
+        "ig", "igate", "gatecurrent", "ib", "ibulk", "bulkcurrent", "is", "isource", "sourcecurrent", "isub",
     ];
 
     private static readonly string[] DensityNames =
@@ -44,33 +102,120 @@ internal static class HeaderParser
         "j", "currentdensity", "jmeas", "jd", "density",
     ];
 
-    /// <summary>Splits one header cell and guesses its role.</summary>
-    public static HeaderField Parse(int index, string rawText)
+    /// <summary>Currents of the four terminals of a MOS transistor.</summary>
+    private static readonly string[] TerminalCurrentNames =
+    [
+        "id", "idrain", "draincurrent", "ig", "igate", "gatecurrent", "ib", "ibulk", "bulkcurrent", "is", "isource", "sourcecurrent", "isub",
+    ];
+
+    private static readonly string[] GateCurrentNames = ["ig", "igate", "gatecurrent"];
+
+    private static readonly string[] GateVoltageNames = ["vg", "vgate", "gatevoltage", "vgs", "vgb"];
+
+    private static readonly string[] TimeNames = ["t", "time", "times", "timestamp", "elapsed", "elapsedtime", "sec", "seconds", "timesec"];
+
+    private static readonly string[] IndexNames = ["index", "idx", "n", "no", "nr", "num", "number", "point", "points", "pt", "pnt", "step", "sample", "count", "row", "pointno", "pointnumber"];
+
+    private static readonly string[] CapacitanceNames = ["c", "cox", "cap", "capacitance", "cg", "cgate", "cgg", "cmeas", "cp", "ctot", "cpar"];
+
+    /// <summary>True when the column's name is a terminal current of a transistor (<c>id</c>, <c>ig</c>, <c>ib</c>, <c>is</c> …).</summary>
+    public static bool IsTerminalCurrent(HeaderField f) => f.Kind == IvColumnKind.Current && Array.IndexOf(TerminalCurrentNames, f.Key) >= 0;
+
+    /// <summary>True when the column's name is the gate current (<c>ig</c>, <c>Igate</c>, <c>gate current</c>).</summary>
+    public static bool IsGateCurrent(HeaderField f) => f.Kind == IvColumnKind.Current && Array.IndexOf(GateCurrentNames, f.Key) >= 0;
+
+    /// <summary>True when the column's name is the gate voltage (<c>vg</c>, <c>Vgate</c>, <c>Vgs</c> …).</summary>
+    public static bool IsGateVoltage(HeaderField f) => f.Kind == IvColumnKind.Voltage && Array.IndexOf(GateVoltageNames, f.Key) >= 0;
+
+    /// <summary>Splits one header cell and guesses what it holds.</summary>
+    /// <param name="index">0-based column.</param>
+    /// <param name="rawText">The cell.</param>
+    /// <param name="unitRowText">The cell of a separate units row below, if there is one.</param>
+    public static HeaderField Parse(int index, string rawText, string? unitRowText = null)
     {
         string text = rawText.Trim();
         (string name, string? unitText) = SplitNameUnit(text);
+        if (unitText is not null && NormalizeName(name) is "abs" or "absolute" or "mag" or "magnitude")
+        {
+            // "abs(I)", "mag[J]": the bracket holds the quantity, not a unit.
+            name = text;
+            unitText = null;
+        }
+        string? fromRow = unitRowText?.Trim();
+        if (unitText is null && !string.IsNullOrEmpty(fromRow))
+        {
+            unitText = StripBrackets(fromRow);
+        }
         UnitScale? unit = null;
         if (unitText is not null && UnitParser.TryParse(unitText, out UnitScale u))
         {
             unit = u;
         }
 
-        string key = NormalizeName(name);
-        (IvColumnRole role, int rank) = RoleFromName(key);
-        if (role == IvColumnRole.Ignored && unitText is null && UnitParser.TryParse(text, out UnitScale whole))
+        (IvColumnKind kind, int rank, string how, bool loose, string key) = KindFromName(name);
+        if (kind == IvColumnKind.Unknown && unitText is null && UnitParser.TryParse(text, out UnitScale whole))
         {
             // The cell is only a unit, e.g. "mV" or "[nA]".
             unit = whole;
-            unitText = text;
+            unitText = StripBrackets(text);
             name = string.Empty;
         }
-        if (role == IvColumnRole.Ignored && unit is UnitScale byUnit)
+
+        // The unit refines or supplies the kind.
+        IvColumnKind byUnit = unit is UnitScale us ? KindFromUnit(us.Kind)
+            : unitText is not null ? KindFromOtherUnit(unitText) : IvColumnKind.Unknown;
+        if (kind == IvColumnKind.Unknown)
         {
-            role = RoleFromUnit(byUnit.Kind);
-            rank = 1000;
+            if (byUnit != IvColumnKind.Unknown)
+            {
+                kind = byUnit;
+                rank = 1000;
+                how = $"by its unit '{unitText}'";
+                loose = true;
+            }
         }
-        return new HeaderField(index, text, name, unitText, unit, role, rank);
+        else if (byUnit != IvColumnKind.Unknown)
+        {
+            IvColumnKind refined = (kind, byUnit) switch
+            {
+                (IvColumnKind.Current, IvColumnKind.CurrentDensity) => IvColumnKind.CurrentDensity,
+                (IvColumnKind.CurrentDensity, IvColumnKind.Current) => IvColumnKind.Current,
+                (IvColumnKind.AbsoluteCurrent, IvColumnKind.CurrentDensity) => IvColumnKind.AbsoluteCurrentDensity,
+                (IvColumnKind.AbsoluteCurrentDensity, IvColumnKind.Current) => IvColumnKind.AbsoluteCurrent,
+                (IvColumnKind.Time or IvColumnKind.Index or IvColumnKind.Capacitance, _) when byUnit != kind => byUnit,
+                _ => kind,
+            };
+            if (refined != kind)
+            {
+                how += $"; its unit '{unitText}' makes it {Describe(refined)}";
+                kind = refined;
+            }
+        }
+
+        IvColumnRole role = kind switch
+        {
+            IvColumnKind.Voltage => IvColumnRole.Voltage,
+            IvColumnKind.Current => IvColumnRole.Current,
+            IvColumnKind.CurrentDensity => IvColumnRole.CurrentDensity,
+            _ => IvColumnRole.Ignored,
+        };
+        return new HeaderField(index, text, name, unitText, unit, role, rank) { Kind = kind, How = how, Loose = loose, Key = key };
     }
+
+    /// <summary>A short name of a kind: <c>voltage</c>, <c>|J|</c>, <c>time</c> ….</summary>
+    public static string Describe(IvColumnKind kind) => kind switch
+    {
+        IvColumnKind.Voltage => "voltage",
+        IvColumnKind.Current => "current",
+        IvColumnKind.CurrentDensity => "current density",
+        IvColumnKind.AbsoluteCurrent => "|I|",
+        IvColumnKind.AbsoluteCurrentDensity => "|J|",
+        IvColumnKind.Time => "time",
+        IvColumnKind.Index => "index",
+        IvColumnKind.Capacitance => "capacitance",
+        IvColumnKind.Other => "another quantity",
+        _ => "not recognised",
+    };
 
     /// <summary>Lower-case letters and digits only.</summary>
     public static string NormalizeName(string name)
@@ -86,7 +231,53 @@ internal static class HeaderParser
         return sb.ToString();
     }
 
-    /// <summary>The role a unit implies.</summary>
+    /// <summary>
+    /// The normalised name with trailing numeric parts dropped (<c>voltage_1_2_11</c> → <c>voltage</c>,
+    /// <c>V 2</c> → <c>v</c>), and the suffix that was dropped (empty if none). A name that is only digits keeps them.
+    /// </summary>
+    public static (string Key, string Suffix) KeyOf(string name)
+    {
+        ReadOnlySpan<char> t = name.AsSpan().Trim();
+        int end = t.Length;
+        // Drop "_1", " 2", "-11", ".3" groups from the end while letters remain before them.
+        while (true)
+        {
+            int k = end;
+            while (k > 0 && char.IsAsciiDigit(t[k - 1]))
+            {
+                k--;
+            }
+            if (k == end || k == 0)
+            {
+                break;
+            }
+            int sep = k;
+            while (sep > 0 && t[sep - 1] is '_' or ' ' or '-' or '.')
+            {
+                sep--;
+            }
+            if (sep == k || sep == 0 || !HasLetter(t[..sep]))
+            {
+                break;
+            }
+            end = sep;
+        }
+        return (NormalizeName(t[..end].ToString()), t[end..].ToString());
+    }
+
+    private static bool HasLetter(ReadOnlySpan<char> s)
+    {
+        foreach (char c in s)
+        {
+            if (char.IsAsciiLetter(c))
+            {
+                return true;
+            }
+        }
+        return false;
+    }
+
+    /// <summary>The kind a unit implies.</summary>
     public static IvColumnRole RoleFromUnit(QuantityKind kind) => kind switch
     {
         QuantityKind.Voltage => IvColumnRole.Voltage,
@@ -95,28 +286,168 @@ internal static class HeaderParser
         _ => IvColumnRole.Ignored,
     };
 
-    private static (IvColumnRole, int) RoleFromName(string key)
+    private static IvColumnKind KindFromUnit(QuantityKind kind) => kind switch
     {
+        QuantityKind.Voltage => IvColumnKind.Voltage,
+        QuantityKind.Current => IvColumnKind.Current,
+        QuantityKind.CurrentDensity => IvColumnKind.CurrentDensity,
+        _ => IvColumnKind.Other,
+    };
+
+    private static IvColumnKind KindFromOtherUnit(string unitText)
+    {
+        string s = StripBrackets(unitText).Replace(" ", string.Empty, StringComparison.Ordinal);
+        if (s is "s" or "ms" or "us" or "µs" or "ns" or "sec" or "min" or "h")
+        {
+            return IvColumnKind.Time;
+        }
+        if (s is "F" or "pF" or "nF" or "fF" or "uF" or "µF" or "F/cm2" or "F/cm²" or "F/m2" or "F/m²" or "fF/um2" or "fF/µm²")
+        {
+            return IvColumnKind.Capacitance;
+        }
+        if (s is "#" or "index")
+        {
+            return IvColumnKind.Index;
+        }
+        return UnitParser.IsOtherUnit(s) ? IvColumnKind.Other : IvColumnKind.Unknown;
+    }
+
+    private static (IvColumnKind Kind, int Rank, string How, bool Loose, string Key) KindFromName(string name)
+    {
+        string trimmed = name.Trim();
+        if (trimmed.Length > 0 && trimmed.Replace(" ", string.Empty, StringComparison.Ordinal) is "#" or "No." or "no.")
+        {
+            return (IvColumnKind.Index, int.MaxValue, "index by its name", false, "#");
+        }
+        bool bars = trimmed.Length > 2 && trimmed[0] == '|' && trimmed[^1] == '|';
+        if (bars)
+        {
+            trimmed = trimmed[1..^1];
+        }
+        (string key, string suffix) = KeyOf(trimmed);
         if (key.Length == 0)
         {
-            return (IvColumnRole.Ignored, int.MaxValue);
+            return (IvColumnKind.Unknown, int.MaxValue, "no name", false, key);
         }
+        string suffixNote = suffix.Length > 0 ? $", suffix '{suffix}' dropped" : string.Empty;
+        bool loose = suffix.Length > 0;
+
+        bool abs = bars;
+        string inner = key;
+        if (!abs)
+        {
+            foreach (string prefix in (string[])["absolute", "abs", "magnitude", "mag"])
+            {
+                if (key.Length > prefix.Length && key.StartsWith(prefix, StringComparison.Ordinal))
+                {
+                    (IvColumnKind k, int _, bool _) = Basic(key[prefix.Length..]);
+                    if (k is IvColumnKind.Current or IvColumnKind.CurrentDensity)
+                    {
+                        abs = true;
+                        inner = key[prefix.Length..];
+                        break;
+                    }
+                }
+            }
+        }
+
+        (IvColumnKind kind, int rank, bool prefixRule) = Basic(inner);
+        if (kind == IvColumnKind.Unknown && trimmed.Length > 2 && trimmed[1] is '_' or ' ' or '-' or '.' && char.IsAsciiLetterOrDigit(trimmed[2]))
+        {
+            // "V_sense", "I_leak", "J_top": a one-letter quantity symbol with a qualifier.
+            (kind, rank) = char.ToLowerInvariant(trimmed[0]) switch
+            {
+                'v' => (IvColumnKind.Voltage, 501),
+                'i' => (IvColumnKind.Current, 501),
+                'j' => (IvColumnKind.CurrentDensity, 501),
+                _ => (IvColumnKind.Unknown, int.MaxValue),
+            };
+            prefixRule = kind != IvColumnKind.Unknown;
+        }
+        if (kind == IvColumnKind.Unknown)
+        {
+            return (kind, int.MaxValue, "name not recognised", false, key);
+        }
+        loose |= prefixRule;
+        if (abs)
+        {
+            kind = kind switch
+            {
+                IvColumnKind.Current => IvColumnKind.AbsoluteCurrent,
+                IvColumnKind.CurrentDensity => IvColumnKind.AbsoluteCurrentDensity,
+                _ => kind,
+            };
+        }
+        string how = $"{Describe(kind)} by its name '{key}'{suffixNote}{(prefixRule ? ", by the start of the name" : string.Empty)}";
+        return (kind, rank, how, loose, key);
+    }
+
+    /// <summary>The kind of a normalised key: exact names first, then name prefixes (loose).</summary>
+    private static (IvColumnKind Kind, int Rank, bool Prefix) Basic(string key)
+    {
         int r = Array.IndexOf(VoltageNames, key);
         if (r >= 0)
         {
-            return (IvColumnRole.Voltage, r);
+            return (IvColumnKind.Voltage, r, false);
         }
         r = Array.IndexOf(CurrentNames, key);
         if (r >= 0)
         {
-            return (IvColumnRole.Current, r);
+            return (IvColumnKind.Current, r, false);
         }
         r = Array.IndexOf(DensityNames, key);
         if (r >= 0)
         {
-            return (IvColumnRole.CurrentDensity, r);
+            return (IvColumnKind.CurrentDensity, r, false);
         }
-        return (IvColumnRole.Ignored, int.MaxValue);
+        if (Array.IndexOf(TimeNames, key) >= 0)
+        {
+            return (IvColumnKind.Time, int.MaxValue, false);
+        }
+        if (Array.IndexOf(IndexNames, key) >= 0)
+        {
+            return (IvColumnKind.Index, int.MaxValue, false);
+        }
+        if (Array.IndexOf(CapacitanceNames, key) >= 0)
+        {
+            return (IvColumnKind.Capacitance, int.MaxValue, false);
+        }
+        if (key.StartsWith("currentdensity", StringComparison.Ordinal) || key.StartsWith("density", StringComparison.Ordinal))
+        {
+            return (IvColumnKind.CurrentDensity, 500, true);
+        }
+        if (key.StartsWith("voltage", StringComparison.Ordinal) || key.StartsWith("bias", StringComparison.Ordinal))
+        {
+            return (IvColumnKind.Voltage, 500, true);
+        }
+        if (key.StartsWith("current", StringComparison.Ordinal))
+        {
+            return (IvColumnKind.Current, 500, true);
+        }
+        if (key.StartsWith("time", StringComparison.Ordinal))
+        {
+            return (IvColumnKind.Time, int.MaxValue, true);
+        }
+        if (key.StartsWith("capacitance", StringComparison.Ordinal))
+        {
+            return (IvColumnKind.Capacitance, int.MaxValue, true);
+        }
+        if (key.StartsWith("index", StringComparison.Ordinal))
+        {
+            return (IvColumnKind.Index, int.MaxValue, true);
+        }
+        return (IvColumnKind.Unknown, int.MaxValue, false);
+    }
+
+    /// <summary>Removes one or more surrounding bracket pairs.</summary>
+    public static string StripBrackets(string text)
+    {
+        ReadOnlySpan<char> t = text.AsSpan().Trim();
+        while (t.Length >= 2 && ((t[0] == '(' && t[^1] == ')') || (t[0] == '[' && t[^1] == ']') || (t[0] == '{' && t[^1] == '}')))
+        {
+            t = t[1..^1].Trim();
+        }
+        return t.ToString();
     }
 
     /// <summary>Separates a trailing unit: <c>(V)</c>, <c>[V]</c>, <c>{V}</c>, <c>/V</c>, <c>_mV</c> or a last word that is a unit.</summary>

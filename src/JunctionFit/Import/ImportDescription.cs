@@ -9,7 +9,14 @@ namespace JunctionFit.Import;
 /// <param name="Header">Header text as written (empty without a header row).</param>
 /// <param name="Role">What the importer does with the column.</param>
 /// <param name="Unit">The unit used (for the voltage and current columns) or found (others); null if none.</param>
-public sealed record ImportColumn(int Number, string Header, IvColumnRole Role, string? Unit);
+public sealed record ImportColumn(int Number, string Header, IvColumnRole Role, string? Unit)
+{
+    /// <summary>What the column holds, as far as its header tells (time, |J|, a terminal current …).</summary>
+    public IvColumnKind Kind { get; init; }
+
+    /// <summary>Why the column has its role, in words (e.g. <c>voltage by its name 'voltage' (suffix '_1_1' dropped)</c>).</summary>
+    public string Reason { get; init; } = string.Empty;
+}
 
 /// <summary>One monotonic part of the sweep.</summary>
 /// <param name="Number">0-based segment number, as in <see cref="IvCurve.Segments"/>.</param>
@@ -52,6 +59,9 @@ public sealed record ImportDescription
         SkippedLines = o.SkippedLines;
         MaskedPoints = o.MaskedPoints;
         TotalSegments = o.TotalSegments;
+        TraceCount = o.TraceCount;
+        AreaSource = o.AreaSource;
+        StartVoltageV = o.StartVoltageV;
         Segments = BuildSegments(o.Curve);
     }
 
@@ -115,6 +125,18 @@ public sealed record ImportDescription
     /// <summary>Segments in the whole sweep (before any selection).</summary>
     public int TotalSegments { get; }
 
+    /// <summary>
+    /// Traces in the whole sweep: how often the same sweep was run one after the other (a new trace
+    /// begins when the bias has come back to its start value and leaves it again the way it first did).
+    /// </summary>
+    public int TraceCount { get; }
+
+    /// <summary>The first bias of the whole sweep (before any segment selection), in volt.</summary>
+    public double StartVoltageV { get; }
+
+    /// <summary>Where <see cref="IvCurve.AreaM2"/> came from (the option, the file's area line, I/J of two columns), or null.</summary>
+    public string? AreaSource { get; }
+
     /// <summary>The segments kept in <see cref="Curve"/>.</summary>
     public ImmutableArray<ImportSegment> Segments { get; }
 
@@ -170,8 +192,12 @@ public sealed record ImportDescription
                 _ => "ignored",
             };
             string header = col.Header.Length == 0 ? "(no header)" : $"'{col.Header}'";
-            lines.Add(string.Create(inv, $"  {col.Number}: {header} -> {role}{(col.Unit is null ? string.Empty : $" [{col.Unit}]")}"));
+            string why = col.Reason.Length == 0 ? string.Empty : $" — {col.Reason}";
+            lines.Add(string.Create(inv, $"  {col.Number}: {header} -> {role}{(col.Unit is null ? string.Empty : $" [{col.Unit}]")}{why}"));
         }
+        lines.Add(TraceCount > 1
+            ? string.Create(inv, $"traces: {TraceCount} (the sweep returns to its start bias {StartVoltageV:G6} V and repeats)")
+            : "traces: 1");
         lines.Add(string.Create(inv, $"segments: {Segments.Length} kept of {TotalSegments}"));
         foreach (ImportSegment s in Segments)
         {
@@ -180,7 +206,7 @@ public sealed record ImportDescription
         lines.Add(string.Create(inv, $"masked points: {MaskedPoints}"));
         if (c.AreaM2 is double a)
         {
-            lines.Add(string.Create(inv, $"area: {a:G6} m²"));
+            lines.Add(string.Create(inv, $"area: {a:G6} m²{(AreaSource is null ? string.Empty : $" (from {AreaSource})")}"));
         }
         if (c.TemperatureK is double t)
         {

@@ -1,3 +1,4 @@
+using System.Globalization;
 using System.Collections.Immutable;
 using System.Runtime.InteropServices;
 
@@ -24,7 +25,10 @@ internal sealed record ParseOutcome(
     string CurrentUnit,
     int SkippedLines,
     int MaskedPoints,
-    int TotalSegments);
+    int TotalSegments,
+    int TraceCount,
+    string? AreaSource,
+    double StartVoltageV);
 
 /// <summary>
 /// The importer's pipeline: decode → split lines → find the table (delimiter, first data row) →
@@ -35,6 +39,12 @@ internal static class IvTableParser
     private static readonly char[] CandidateDelimiters = ['\t', ';', ',', '|', ' '];
     private const int SampleRows = 3;
     private const int DetailedSkipWarnings = 10;
+
+    /// <summary>
+    /// Largest relative deviation of I/J from its median for the ratio to count as one area; instruments
+    /// print 4–7 digits, so a true common area agrees far better (common practice, no source).
+    /// </summary>
+    public const double AreaRatioTolerance = 0.01;
 
     public static ParseOutcome Parse(string text, string sourcePath, string matchPath, IvReadOptions options, string encodingName)
     {
@@ -341,7 +351,7 @@ internal static class IvTableParser
                 for (int k = fields.Count - 1; k > 0; k--)
                 {
                     string t = fields[k].Text;
-                    if (t.Length > 1 && t[0] is '(' or '[' or '{' && t[^1] is ')' or ']' or '}')
+                    if (IsBracketed(t) && !IsBracketed(fields[k - 1].Text) && fields[k - 1].Text.Length > 0)
                     {
                         fields[k - 1] = HeaderParser.Parse(k - 1, fields[k - 1].Text + " " + t);
                         fields.RemoveAt(k);
@@ -357,6 +367,8 @@ internal static class IvTableParser
             }
             return fields;
         }
+
+        private static bool IsBracketed(string t) => t.Length > 1 && t[0] is '(' or '[' or '{' && t[^1] is ')' or ']' or '}';
 
         private bool TryHeader(ReadOnlySpan<char> line, int dataCount, bool requireBoth, out List<HeaderField> fields)
         {
@@ -384,8 +396,8 @@ internal static class IvTableParser
             {
                 return false;
             }
-            bool hasV = fields.Exists(f => f.Role == IvColumnRole.Voltage);
-            bool hasI = fields.Exists(f => f.Role is IvColumnRole.Current or IvColumnRole.CurrentDensity);
+            bool hasV = fields.Exists(f => f.Kind == IvColumnKind.Voltage);
+            bool hasI = fields.Exists(f => IsCurrentLike(f.Kind));
             if (requireBoth)
             {
                 return hasV && hasI && fields.Count == dataCount;
@@ -429,9 +441,7 @@ internal static class IvTableParser
                 var units = new List<HeaderField>(fields.Count);
                 foreach (HeaderField f in fields)
                 {
-                    UnitScale? u = UnitParser.TryParse(f.Text, out UnitScale parsed) ? parsed : null;
-                    units.Add(new HeaderField(f.Index, f.Text, string.Empty, f.Text.Length == 0 ? null : f.Text, u,
-                        u is UnitScale k ? HeaderParser.RoleFromUnit(k.Kind) : IvColumnRole.Ignored, u is null ? int.MaxValue : 1000));
+                    units.Add(HeaderParser.Parse(f.Index, string.Empty, f.Text) with { Text = f.Text });
                 }
                 fields = units;
             }
@@ -444,23 +454,12 @@ internal static class IvTableParser
             foreach (HeaderField f in header)
             {
                 HeaderField? u = f.Index < units.Count ? units[f.Index] : null;
-                if (u?.Unit is not UnitScale unit || f.UnitText is not null)
+                if (u is null || u.Text.Length == 0 || f.UnitText is not null)
                 {
                     merged.Add(f);
                     continue;
                 }
-                IvColumnRole role = f.Role;
-                int rank = f.Rank;
-                if (role == IvColumnRole.Ignored)
-                {
-                    role = HeaderParser.RoleFromUnit(unit.Kind);
-                    rank = 1000;
-                }
-                else if (role == IvColumnRole.Current && unit.Kind == QuantityKind.CurrentDensity)
-                {
-                    role = IvColumnRole.CurrentDensity;
-                }
-                merged.Add(f with { UnitText = u.Text, Unit = unit, Role = role, Rank = rank });
+                merged.Add(HeaderParser.Parse(f.Index, f.Text, u.Text));
             }
             return merged;
         }
@@ -474,7 +473,27 @@ internal static class IvTableParser
             UnitScale CurrentUnit,
             bool Density,
             double AreaM2,
-            ImmutableArray<ImportColumn> Columns);
+            ImmutableArray<ImportColumn> Columns)
+        {
+            /// <summary>The current column holds |I| or |J|: the sign is taken from the bias.</summary>
+            public bool Absolute { get; init; }
+
+            /// <summary>A current and a density column for the area from I/J (-1: none).</summary>
+            public int PairCurrentIndex { get; init; } = -1;
+
+            public int PairDensityIndex { get; init; } = -1;
+
+            public UnitScale PairCurrentUnit { get; init; } = UnitScale.Ampere;
+
+            public UnitScale PairDensityUnit { get; init; } = UnitScale.AmperePerSquareCentimetre;
+
+            public string PairText { get; init; } = string.Empty;
+        }
+
+        private static bool IsCurrentLike(IvColumnKind k)
+            => k is IvColumnKind.Current or IvColumnKind.CurrentDensity or IvColumnKind.AbsoluteCurrent or IvColumnKind.AbsoluteCurrentDensity;
+
+        private static bool IsDensityLike(IvColumnKind k) => k is IvColumnKind.CurrentDensity or IvColumnKind.AbsoluteCurrentDensity;
 
         private ColumnPlan PlanColumns(List<HeaderField>? header, int? headerLine, int dataCount, MetadataSet meta)
         {
@@ -482,6 +501,10 @@ internal static class IvTableParser
             int columnCount = Math.Max(dataCount, header?.Count ?? 0);
             int v = options.VoltageColumn is string vc ? Resolve(vc, header, line, columnCount, "voltage") : -1;
             int c = options.CurrentColumn is string cc ? Resolve(cc, header, line, columnCount, "current") : -1;
+            bool vForced = v >= 0, cForced = c >= 0;
+            double? knownArea = options.AreaM2 ?? meta.AreaM2;
+            string currentNote = string.Empty;
+            var notes = new List<string>();
 
             if (header is null)
             {
@@ -495,43 +518,59 @@ internal static class IvTableParser
                 }
                 if (options.VoltageColumn is null || options.CurrentColumn is null)
                 {
-                    _warnings.Add($"no header row: column {v + 1} read as voltage and column {c + 1} as current");
+                    _warnings.Add($"no header row: column {v + 1} read as voltage and column {c + 1} as current (choose others with --voltage-column and --current-column)");
                 }
             }
             else
             {
-                if (v < 0)
-                {
-                    v = Best(header, IvColumnRole.Voltage, except: c, line);
-                }
                 if (c < 0)
                 {
-                    c = Best(header, IvColumnRole.Current, except: v, line);
-                    if (c < 0)
+                    c = ChooseCurrent(header, v, line, out currentNote, notes);
+                }
+                if (v < 0)
+                {
+                    // The gate current goes with the gate voltage when there is one.
+                    if (c >= 0 && c < header.Count && HeaderParser.IsGateCurrent(header[c]))
                     {
-                        c = Best(header, IvColumnRole.CurrentDensity, except: v, line);
+                        HeaderField? gv = header.Find(f => HeaderParser.IsGateVoltage(f) && f.Index != c);
+                        v = gv?.Index ?? -1;
+                    }
+                    if (v < 0)
+                    {
+                        v = Best(header, f => f.Kind == IvColumnKind.Voltage, "voltage", except: c, line);
                     }
                 }
                 if ((v < 0 || c < 0) && header.Count == 2 && (v >= 0 || c >= 0))
                 {
-                    if (v < 0)
+                    int other = v < 0 ? 1 - c : 1 - v;
+                    if (header[other].Kind == IvColumnKind.Unknown)
                     {
-                        v = 1 - c;
-                        _warnings.Add($"column '{header[v].Text}' is not a known voltage name; read as voltage because the other column is the current");
-                    }
-                    else
-                    {
-                        c = 1 - v;
-                        _warnings.Add($"column '{header[c].Text}' is not a known current name; read as current because the other column is the voltage");
+                        if (v < 0)
+                        {
+                            v = other;
+                            _warnings.Add($"column '{header[v].Text}' is not a known voltage name; read as voltage because the other column is the current");
+                        }
+                        else
+                        {
+                            c = other;
+                            _warnings.Add($"column '{header[c].Text}' is not a known current name; read as current because the other column is the voltage");
+                        }
                     }
                 }
                 if (v < 0)
                 {
-                    throw new IvFormatException(path, line, $"no voltage column among {ListColumns(header)}; name it with the VoltageColumn option");
+                    throw new IvFormatException(path, line, $"no voltage column among {ListColumns(header)}; choose it with --voltage-column (a header name or a 1-based number)");
                 }
                 if (c < 0)
                 {
-                    throw new IvFormatException(path, line, $"no current column among {ListColumns(header)}; name it with the CurrentColumn option");
+                    HeaderField? cap = header.Find(f => f.Kind == IvColumnKind.Capacitance);
+                    if (cap is not null)
+                    {
+                        throw new IvFormatException(path, line,
+                            $"no current column among {ListColumns(header)}: this looks like a capacitance–voltage file ({cap.Name} in {cap.UnitText ?? "F"}); use --cv to read it as a C–V file, or choose a current column with --current-column",
+                            cap.Index + 1, cap.Text);
+                    }
+                    throw new IvFormatException(path, line, $"no current column among {ListColumns(header)}; choose it with --current-column (a header name or a 1-based number)");
                 }
             }
             if (v == c)
@@ -543,25 +582,65 @@ internal static class IvTableParser
             HeaderField? cf = header is not null && c < header.Count ? header[c] : null;
 
             UnitScale vUnit = UnitFor(vf, options.VoltageUnit, line, "voltage", QuantityKind.Voltage, QuantityKind.Voltage, UnitScale.Volt);
-            bool densityByName = cf?.Role == IvColumnRole.CurrentDensity && cf.Unit is null;
+            bool densityByName = cf is not null && IsDensityLike(cf.Kind) && cf.Unit is null;
             UnitScale cUnit = UnitFor(cf, options.CurrentUnit, line, "current", QuantityKind.Current, QuantityKind.CurrentDensity,
-                densityByName ? UnitScale.AmperePerSquareMetre : UnitScale.Ampere);
+                densityByName ? UnitScale.AmperePerSquareCentimetre : UnitScale.Ampere);
             if (densityByName && options.CurrentUnit is null)
             {
-                _warnings.Add($"current density column '{cf!.Text}' has no unit; read as A/m²");
+                _warnings.Add($"current density column '{cf!.Text}' has no unit; read as A/cm² (set --current-unit otherwise)");
+            }
+            bool absolute = cf is not null && cf.Kind is IvColumnKind.AbsoluteCurrent or IvColumnKind.AbsoluteCurrentDensity;
+            if (absolute)
+            {
+                _warnings.Add($"column '{cf!.Text}' holds {HeaderParser.Describe(cf.Kind)} (no signed column is given); the sign of each point is taken from its bias");
             }
 
             bool density = cUnit.Kind == QuantityKind.CurrentDensity;
             double area = 0;
             if (density)
             {
-                double? a = options.AreaM2 ?? meta.AreaM2;
-                if (a is not double known)
+                if (knownArea is not double known)
                 {
                     throw new IvFormatException(path, line,
-                        $"column '{cf?.Text ?? (c + 1).ToString(System.Globalization.CultureInfo.InvariantCulture)}' holds current density but the file states no area; add an 'area' line (e.g. '# area: 100 um2') or set the AreaM2 option");
+                        $"column '{cf?.Text ?? (c + 1).ToString(System.Globalization.CultureInfo.InvariantCulture)}' holds current density but the file states no area; add an 'area' line to the preamble (e.g. '# area: 100 um2'), or choose a current column with --current-column");
                 }
                 area = known;
+            }
+
+            // A current column and a density column together give the area (I/J).
+            int pairI = -1, pairJ = -1;
+            UnitScale pairIUnit = UnitScale.Ampere, pairJUnit = UnitScale.AmperePerSquareCentimetre;
+            if (header is not null)
+            {
+                bool IsI(HeaderField f) => f.Kind is IvColumnKind.Current or IvColumnKind.AbsoluteCurrent && f.Index != v && f.Unit?.Kind is null or QuantityKind.Current;
+                bool IsJ(HeaderField f) => IsDensityLike(f.Kind) && f.Index != v && f.Unit?.Kind is null or QuantityKind.CurrentDensity;
+                if (cf is not null && !density && IsI(cf))
+                {
+                    pairI = c;
+                }
+                else
+                {
+                    HeaderField? fi = header.Find(f => f.Kind == IvColumnKind.Current && IsI(f)) ?? header.Find(IsI);
+                    pairI = fi?.Index ?? -1;
+                }
+                if (cf is not null && density && IsJ(cf))
+                {
+                    pairJ = c;
+                }
+                else
+                {
+                    HeaderField? fj = header.Find(f => f.Kind == IvColumnKind.CurrentDensity && IsJ(f)) ?? header.Find(IsJ);
+                    pairJ = fj?.Index ?? -1;
+                }
+                if (pairI >= 0 && pairJ >= 0 && pairI != pairJ)
+                {
+                    pairIUnit = pairI == c ? cUnit : header[pairI].Unit ?? UnitScale.Ampere;
+                    pairJUnit = pairJ == c ? cUnit : header[pairJ].Unit ?? UnitScale.AmperePerSquareCentimetre;
+                }
+                else
+                {
+                    pairI = pairJ = -1;
+                }
             }
 
             var columns = ImmutableArray.CreateBuilder<ImportColumn>(columnCount);
@@ -572,9 +651,143 @@ internal static class IvTableParser
                     : k == c ? (density ? IvColumnRole.CurrentDensity : IvColumnRole.Current)
                     : IvColumnRole.Ignored;
                 string? unit = k == v ? vUnit.Symbol : k == c ? cUnit.Symbol : f?.UnitText;
-                columns.Add(new ImportColumn(k + 1, f?.Text ?? string.Empty, role, unit));
+                IvColumnKind kind = f?.Kind ?? (k == v ? IvColumnKind.Voltage : k == c ? IvColumnKind.Current : IvColumnKind.Unknown);
+                string reason;
+                if (k == v)
+                {
+                    reason = vForced ? "chosen with --voltage-column" : f is null ? "by position (no header)" : f.How;
+                }
+                else if (k == c)
+                {
+                    reason = (cForced ? "chosen with --current-column" : f is null ? "by position (no header)" : f.How + currentNote)
+                        + (absolute ? "; sign taken from the bias" : string.Empty)
+                        + (density ? string.Create(System.Globalization.CultureInfo.InvariantCulture, $"; times the area {area:G5} m²") : string.Empty);
+                }
+                else if (f is null)
+                {
+                    reason = header is null ? "no header; not used" : "no header cell; not used";
+                }
+                else
+                {
+                    reason = f.Kind switch
+                    {
+                        IvColumnKind.Time or IvColumnKind.Index => $"{f.How}; ignored",
+                        IvColumnKind.Unknown => "name not recognised; ignored",
+                        _ when IsCurrentLike(f.Kind) => $"{f.How}; not used: column {c + 1} is the current" + (k == pairI || k == pairJ ? "; used with it for the area from I/J" : string.Empty),
+                        IvColumnKind.Voltage => $"{f.How}; not used: column {v + 1} is the bias",
+                        _ => $"{f.How}; ignored",
+                    };
+                }
+                if (unit is null && f is not null && IsDensityLike(f.Kind) && k != c)
+                {
+                    unit = "A/cm²";
+                    reason += "; unit not given, A/cm² assumed";
+                }
+                columns.Add(new ImportColumn(k + 1, f?.Text ?? string.Empty, role, unit) { Kind = kind, Reason = reason });
             }
-            return new ColumnPlan(v, c, vUnit, cUnit, density, area, columns.MoveToImmutable());
+
+            // Say what was chosen when the choice was not plain.
+            if (header is not null && (!vForced || !cForced))
+            {
+                int currentLike = header.Count(f => IsCurrentLike(f.Kind));
+                int voltages = header.Count(f => f.Kind == IvColumnKind.Voltage);
+                bool loose = (vf?.Loose ?? false) || (cf?.Loose ?? false);
+                if (loose || currentLike > 1 || voltages > 1 || absolute)
+                {
+                    var ignored = new List<string>();
+                    foreach (HeaderField f in header)
+                    {
+                        if (f.Index != v && f.Index != c && f.Text.Length > 0)
+                        {
+                            ignored.Add($"{f.Text} ({ShortKind(f)})");
+                        }
+                    }
+                    _warnings.Add($"columns by name: voltage '{vf?.Text}' ({v + 1}), {(density ? "current density" : "current")} '{cf?.Text}' ({c + 1})"
+                        + (ignored.Count > 0 ? "; ignored: " + string.Join(", ", ignored) : string.Empty)
+                        + "; if this is wrong, choose with --voltage-column and --current-column");
+                }
+            }
+            _warnings.AddRange(notes);
+
+            return new ColumnPlan(v, c, vUnit, cUnit, density, area, columns.MoveToImmutable())
+            {
+                Absolute = absolute,
+                PairCurrentIndex = pairI,
+                PairDensityIndex = pairJ,
+                PairCurrentUnit = pairIUnit,
+                PairDensityUnit = pairJUnit,
+                PairText = pairI >= 0 ? $"columns '{header![pairI].Text}' ({pairI + 1}) and '{header[pairJ].Text}' ({pairJ + 1})" : string.Empty,
+            };
+        }
+
+        private static string ShortKind(HeaderField f)
+        {
+            string unit = f.UnitText ?? f.Kind switch
+            {
+                IvColumnKind.Current or IvColumnKind.AbsoluteCurrent => "A",
+                IvColumnKind.CurrentDensity or IvColumnKind.AbsoluteCurrentDensity => "A/cm²",
+                IvColumnKind.Time => "s",
+                IvColumnKind.Voltage => "V",
+                IvColumnKind.Capacitance => "F",
+                _ => string.Empty,
+            };
+            string what = f.Kind switch
+            {
+                IvColumnKind.Current => HeaderParser.IsTerminalCurrent(f) ? "terminal current" : "I",
+                IvColumnKind.CurrentDensity => "J",
+                IvColumnKind.AbsoluteCurrent => "|I|",
+                IvColumnKind.AbsoluteCurrentDensity => "|J|",
+                IvColumnKind.Voltage => "voltage",
+                _ => HeaderParser.Describe(f.Kind),
+            };
+            return unit.Length > 0 ? $"{what}, {unit}" : what;
+        }
+
+        /// <summary>
+        /// The current column: the signed current (the gate current among transistor terminal currents),
+        /// else |I|, else the signed density when the area is known, else |J| likewise, else any density.
+        /// </summary>
+        private int ChooseCurrent(List<HeaderField> header, int v, int line, out string note, List<string> notes)
+        {
+            note = string.Empty;
+            var signed = header.FindAll(f => f.Kind == IvColumnKind.Current && f.Index != v);
+            if (signed.Count > 0)
+            {
+                var terminals = signed.FindAll(HeaderParser.IsTerminalCurrent);
+                var gates = signed.FindAll(HeaderParser.IsGateCurrent);
+                if (gates.Count == 1 && terminals.Count >= 2)
+                {
+                    HeaderField g = gates[0];
+                    note = "; the gate current, preferred among the terminal currents";
+                    notes.Add($"several terminal currents ({string.Join(", ", terminals.ConvertAll(t => t.Text))}): the gate current '{g.Text}' (column {g.Index + 1}) is read, the tunnelling current through a gate oxide; choose another with --current-column");
+                    return g.Index;
+                }
+                int best = Best(header, f => f.Kind == IvColumnKind.Current, "current", v, line);
+                if (header.Exists(f => f.Index != best && f.Index != v && IsCurrentLike(f.Kind)))
+                {
+                    note = "; the signed current, preferred over the other current columns";
+                }
+                return best;
+            }
+            int abs = Best(header, f => f.Kind == IvColumnKind.AbsoluteCurrent, "|I|", v, line);
+            if (abs >= 0)
+            {
+                note = "; no signed current column";
+                return abs;
+            }
+            // A density needs the area; without one, reading it fails below with a message that says so.
+            int j = Best(header, f => f.Kind == IvColumnKind.CurrentDensity, "current density", v, line);
+            if (j >= 0)
+            {
+                note = "; no current column";
+                return j;
+            }
+            int absJ = Best(header, f => f.Kind == IvColumnKind.AbsoluteCurrentDensity, "|J|", v, line);
+            if (absJ >= 0)
+            {
+                note = "; no current or signed density column";
+            }
+            return absJ;
         }
 
         private UnitScale UnitFor(HeaderField? f, string? optionUnit, int line, string what, QuantityKind a, QuantityKind b, UnitScale fallback)
@@ -591,7 +804,7 @@ internal static class IvTableParser
             if (f.Unit is not UnitScale u)
             {
                 throw new IvFormatException(path, line,
-                    $"unknown unit '{MetadataParser.Short(f.UnitText)}' in {what} column '{MetadataParser.Short(f.Text)}'; units read are V with p/n/u/µ/m/k prefixes, A likewise, A/cm², mA/cm², A/m² (or set the {(a == QuantityKind.Voltage ? "VoltageUnit" : "CurrentUnit")} option)",
+                    $"unknown unit '{MetadataParser.Short(f.UnitText)}' in {what} column '{MetadataParser.Short(f.Text)}'; units read are V with p/n/u/µ/m/k prefixes, A likewise, A/cm², mA/cm², A/m² (or set {(a == QuantityKind.Voltage ? "--voltage-unit" : "--current-unit")})",
                     f.Index + 1, f.Text);
             }
             if (u.Kind != a && u.Kind != b)
@@ -640,12 +853,12 @@ internal static class IvTableParser
             return found;
         }
 
-        private int Best(List<HeaderField> header, IvColumnRole role, int except, int line)
+        private int Best(List<HeaderField> header, Predicate<HeaderField> match, string what, int except, int line)
         {
             int best = -1;
             foreach (HeaderField f in header)
             {
-                if (f.Role != role || f.Index == except)
+                if (!match(f) || f.Index == except)
                 {
                     continue;
                 }
@@ -656,20 +869,12 @@ internal static class IvTableParser
                 else if (f.Rank == header[best].Rank)
                 {
                     throw new IvFormatException(path, line,
-                        $"columns {best + 1} ('{header[best].Text}') and {f.Index + 1} ('{f.Text}') could both be the {RoleName(role)}; choose one with the {(role == IvColumnRole.Voltage ? "VoltageColumn" : "CurrentColumn")} option",
+                        $"columns {best + 1} ('{header[best].Text}') and {f.Index + 1} ('{f.Text}') could both be the {what}; choose one with {(what == "voltage" ? "--voltage-column" : "--current-column")}",
                         f.Index + 1, f.Text);
                 }
             }
             return best;
         }
-
-        private static string RoleName(IvColumnRole role) => role switch
-        {
-            IvColumnRole.Voltage => "voltage",
-            IvColumnRole.Current => "current",
-            IvColumnRole.CurrentDensity => "current density",
-            _ => "column",
-        };
 
         private static string ListColumns(List<HeaderField> header)
         {
@@ -688,7 +893,13 @@ internal static class IvTableParser
 
         // ---------------------------------------------------------------- rows
 
-        private sealed record RowData(double[] V, double[] I, int[] Lines, int Count, int Skipped, int LastDataLine);
+        private sealed record RowData(double[] V, double[] I, int[] Lines, int Count, int Skipped, int LastDataLine)
+        {
+            /// <summary>The current and density of the I/J pair in SI (NaN where a cell is not a number); null without a pair.</summary>
+            public double[]? PairI { get; init; }
+
+            public double[]? PairJ { get; init; }
+        }
 
         private RowData ReadRows(int dataStart, ColumnPlan plan)
         {
@@ -702,6 +913,12 @@ internal static class IvTableParser
             int lastData = dataStart + 1;
             int vIdx = plan.VoltageIndex, cIdx = plan.CurrentIndex;
             int maxIdx = Math.Max(vIdx, cIdx);
+            int piIdx = plan.PairCurrentIndex, pjIdx = plan.PairDensityIndex;
+            bool pair = piIdx >= 0 && pjIdx >= 0;
+            double[]? pis = pair ? new double[capacity] : null;
+            double[]? pjs = pair ? new double[capacity] : null;
+            int readTo = pair ? Math.Max(maxIdx, Math.Max(piIdx, pjIdx)) : maxIdx;
+            bool absolute = plan.Absolute;
             char delim = _delimiter;
             UnitScale vu = plan.VoltageUnit, cu = plan.CurrentUnit;
             bool density = plan.Density;
@@ -715,11 +932,11 @@ internal static class IvTableParser
                     continue;
                 }
 
-                ReadOnlySpan<char> vText = default, cText = default;
-                bool vQuoted = false, cQuoted = false;
+                ReadOnlySpan<char> vText = default, cText = default, piText = default, pjText = default;
+                bool vQuoted = false, cQuoted = false, piQuoted = false, pjQuoted = false;
                 int fields = 0;
                 var cursor = new FieldCursor(line, delim);
-                while (fields <= maxIdx && cursor.MoveNext(out ReadOnlySpan<char> f, out bool q))
+                while (fields <= readTo && cursor.MoveNext(out ReadOnlySpan<char> f, out bool q))
                 {
                     if (fields == vIdx)
                     {
@@ -731,7 +948,21 @@ internal static class IvTableParser
                         cText = f;
                         cQuoted = q;
                     }
+                    if (pair && fields == piIdx)
+                    {
+                        piText = f;
+                        piQuoted = q;
+                    }
+                    if (pair && fields == pjIdx)
+                    {
+                        pjText = f;
+                        pjQuoted = q;
+                    }
                     fields++;
+                }
+                if (fields > maxIdx + 1)
+                {
+                    fields = maxIdx + 1;
                 }
 
                 string? problem = null;
@@ -776,6 +1007,16 @@ internal static class IvTableParser
                 {
                     cSi *= area;
                 }
+                if (absolute)
+                {
+                    // |I| or |J| only: the current flows the way the bias drives it.
+                    cSi = vSi < 0 ? -Math.Abs(cSi) : Math.Abs(cSi);
+                }
+                if (pair)
+                {
+                    pis![n] = LenientCell(piText, piQuoted, delim, plan.PairCurrentUnit);
+                    pjs![n] = LenientCell(pjText, pjQuoted, delim, plan.PairDensityUnit);
+                }
                 vs[n] = vSi;
                 cs[n] = cSi;
                 ls[n] = i + 1;
@@ -796,8 +1037,11 @@ internal static class IvTableParser
             {
                 throw new IvFormatException(path, ls[0], "only one usable data row; an I–V curve needs at least two points");
             }
-            return new RowData(vs, cs, ls, n, skipped, lastData);
+            return new RowData(vs, cs, ls, n, skipped, lastData) { PairI = pis, PairJ = pjs };
         }
+
+        private double LenientCell(ReadOnlySpan<char> cell, bool quoted, char delim, UnitScale unit)
+            => !cell.IsEmpty && NumberText.TryParse(cell, AllowComma(delim, quoted), out double x, out _) && double.IsFinite(x) ? unit.ToSi(x) : double.NaN;
 
         private bool ParseCell(ReadOnlySpan<char> cell, bool quoted, char delim, out double value, out string? problem, string what)
         {
@@ -895,6 +1139,9 @@ internal static class IvTableParser
             ReadOnlySpan<double> c = data.I.AsSpan(0, n);
             int[] segments = SweepAnalysis.Segments(v);
             int totalSegments = n == 0 ? 0 : segments[n - 1] + 1;
+            _ = SweepAnalysis.Traces(v, out int traceCount);
+            double startV = data.V[0]; // before a segment selection compacts the arrays
+            (double? areaM2, string? areaSource) = ResolveArea(data, plan, meta);
             bool[] mask;
             int masked = 0;
             if (options.MaskCompliance)
@@ -962,7 +1209,7 @@ internal static class IvTableParser
                 SourceLines = Exact(lOut, kept),
                 Segments = Exact(segments, kept),
                 ImportMask = Exact(mask, kept),
-                AreaM2 = options.AreaM2 ?? meta.AreaM2,
+                AreaM2 = areaM2,
                 TemperatureK = meta.TemperatureK,
                 ComplianceA = meta.ComplianceA,
                 Lot = meta.Lot,
@@ -1000,7 +1247,48 @@ internal static class IvTableParser
                 plan.CurrentUnit.Symbol,
                 data.Skipped,
                 masked,
-                totalSegments);
+                totalSegments,
+                traceCount,
+                areaSource,
+                startV);
+        }
+
+        /// <summary>
+        /// The area: the option, else the file's area line, else I/J when the file holds both a current and
+        /// a current-density column whose ratio is constant (within <see cref="AreaRatioTolerance"/>).
+        /// </summary>
+        private (double? AreaM2, string? Source) ResolveArea(RowData data, ColumnPlan plan, MetadataSet meta)
+        {
+            double? stated = options.AreaM2 ?? meta.AreaM2;
+            string? source = options.AreaM2 is not null ? "option" : meta.AreaM2 is not null ? "the file's area line" : null;
+            if (data.PairI is not double[] pi || data.PairJ is not double[] pj)
+            {
+                return (stated, source);
+            }
+            CultureInfo inv = CultureInfo.InvariantCulture;
+            int n = data.Count;
+            if (!SweepAnalysis.TryMedianRatio(pi.AsSpan(0, n), pj.AsSpan(0, n), out double ratio, out double spread, out int used))
+            {
+                _warnings.Add($"area not derived from I/J of {plan.PairText}: fewer than three points where both are well above zero");
+                return (stated, source);
+            }
+            if (spread > AreaRatioTolerance)
+            {
+                _warnings.Add(string.Create(inv, $"area not derived from I/J of {plan.PairText}: the ratio varies by {spread * 100:G3} % over {used} points (more than {AreaRatioTolerance * 100:G2} %), so they do not share one area"));
+                return (stated, source);
+            }
+            string derived = string.Create(inv,
+                $"{ratio:G5} m² ({ratio * 1e4:G5} cm², the area of a circle of {2 * Math.Sqrt(ratio / Math.PI) * 1e6:G4} µm diameter) from I/J of {plan.PairText}, the median over {used} points, constant within {Math.Max(spread * 100, 1e-4):G2} %");
+            if (stated is double s)
+            {
+                if (Math.Abs(ratio / s - 1) > AreaRatioTolerance)
+                {
+                    _warnings.Add(string.Create(inv, $"the {source} gives an area of {s:G5} m² but I/J gives {derived}; the {source} is used"));
+                }
+                return (stated, source);
+            }
+            _warnings.Add($"area {derived}; used as the file's area (for --area-from-file)");
+            return (ratio, "I/J of " + plan.PairText);
         }
 
         private static ImmutableArray<T> Exact<T>(T[] array, int count)

@@ -45,6 +45,9 @@ internal readonly record struct UnitScale(QuantityKind Kind, string Symbol, int 
 
     /// <summary>Ampere per square metre.</summary>
     public static UnitScale AmperePerSquareMetre => new(QuantityKind.CurrentDensity, "A/m²", 0);
+
+    /// <summary>Ampere per square centimetre (10⁴ A/m²).</summary>
+    public static UnitScale AmperePerSquareCentimetre => new(QuantityKind.CurrentDensity, "A/cm²", 4);
 }
 
 /// <summary>Parses unit text such as <c>mV</c>, <c>[µA]</c>, <c>A/cm^2</c>, <c>um²</c>, <c>°C</c>.</summary>

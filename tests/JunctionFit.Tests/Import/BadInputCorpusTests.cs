@@ -86,6 +86,12 @@ public partial class BadInputCorpusTests
         ["column option by unknown name"] = new(() => T("V,I\n0,0\n0.1,1e-9\n"), Outcome.Refuse(1, "no column named"), new IvReadOptions { VoltageColumn = "Vgate" }),
         ["column option by name without header"] = new(() => T("0,0\n0.1,1e-9\n"), Outcome.Refuse(0, "no header"), new IvReadOptions { VoltageColumn = "V" }),
         ["forced wrong delimiter"] = new(() => T("V,I\n0,0\n0.1,1e-9\n"), Outcome.Refuse(), new IvReadOptions { Delimiter = ';' }),
+        ["capacitance-voltage file"] = new(() => T("vg,cox\n-1,1e-9\n0,2e-9\n1,3e-9\n"), Outcome.Refuse(1, "capacitance–voltage")),
+        ["time and voltage only"] = new(() => T("Time (s),Voltage (V)\n0,0.1\n1,0.2\n"), Outcome.Refuse(1, "no current column")),
+        ["|J| only without area"] = new(() => T("V,|J|\n0.1,1\n0.2,2\n"), Outcome.Refuse(1, "area")),
+        ["suffixed header with trailing tab"] = new(() => T("voltage_1_1\tcurrent_1_1\t\n0\t0\n0.1\t1e-9\n"), Outcome.Read(2)),
+        ["names and bracketed units row"] = new(() => T("Time Voltage Current\n[s] [V] [uA]\n0 0.1 1\n1 0.2 2\n"), Outcome.Read(2)),
+        ["current and density not proportional"] = new(() => T("V,I (A),J (A/cm2)\n0.1,1e-9,1\n0.2,2e-9,5\n0.3,3e-9,1\n"), Outcome.Read(3)),
         ["constant voltage"] = new(() => T("V,I\n0.5,1e-9\n0.5,1.1e-9\n0.5,0.9e-9\n"), Outcome.Read(3)),
         ["all current identical (clipped)"] = new(() => T("V,I\n0.1,1e-3\n0.2,1e-3\n0.3,1e-3\n"), Outcome.Read(3)),
     };

@@ -409,4 +409,208 @@ public class IvFileReaderLayoutTests
         Assert.Contains(lines, l => l.StartsWith("segments: 1 kept of 1", StringComparison.Ordinal));
         Assert.Equal(3, d.HeaderLine);
     }
+
+    // ---------------------------------------------------------------- shapes met in real files (issue 11)
+
+    private static string Rows(string header, Func<int, string> row, string nl = "\n")
+    {
+        var sb = new StringBuilder(header).Append(nl);
+        for (int k = 0; k < V.Length; k++)
+        {
+            sb.Append(row(k)).Append(nl);
+        }
+        return sb.ToString();
+    }
+
+    [Theory]
+    [InlineData("\t")]
+    [InlineData(",")]
+    [InlineData(";")]
+    public void Parse_HeaderWithTrailingDelimiter_IsAHeader(string d)
+    {
+        ImportDescription desc = IvFileReader.DescribeText(Rows($"Voltage (V){d}Current (A){d}", k => $"{R(V[k])}{d}{R(I[k])}"), "td.txt");
+        Assert.Equal(1, desc.HeaderLine);
+        Assert.Equal(2, desc.Columns.Length);
+        AssertPoints(desc.Curve);
+    }
+
+    [Theory]
+    [InlineData("voltage_1_1,current_1_1")]
+    [InlineData("voltage_1_2_11,current_1_2_11")]
+    [InlineData("V_2,I_2")]
+    [InlineData("Voltage (V),Current (A)")]
+    [InlineData("Voltage [V],Current [A]")]
+    [InlineData("Voltage / V,Current / A")]
+    [InlineData("Bias voltage 1,Current 1")]
+    [InlineData("V_sense,I_meas_3")]
+    public void Parse_SuffixedNames_FindVoltageAndCurrent(string header)
+    {
+        ImportDescription d = IvFileReader.DescribeText(Table(header, ",", R, R), "sx.csv");
+        Assert.Equal((1, 2), (d.VoltageColumn, d.CurrentColumn));
+        AssertPoints(d.Curve);
+    }
+
+    [Fact]
+    public void Parse_NamesRowThenBracketedUnitsRowWhitespace_TimeIsIgnored()
+    {
+        string text = Rows("Time Voltage Current\n[s] [V] [uA]", k => $"{0.5 * k} {R(V[k])} {R(I[k] * 1e6)}");
+        ImportDescription d = IvFileReader.DescribeText(text, "nu.txt");
+        Assert.Equal(' ', d.Delimiter);
+        Assert.Equal((1, 2), (d.HeaderLine, d.UnitsLine));
+        Assert.Equal((2, 3), (d.VoltageColumn, d.CurrentColumn));
+        Assert.Equal("uA", d.CurrentUnit);
+        Assert.Equal(IvColumnKind.Time, d.Columns[0].Kind);
+        Assert.Equal("s", d.Columns[0].Unit);
+        AssertPoints(d.Curve, rel: 1e-15);
+    }
+
+    [Theory]
+    [InlineData("V\tI\tT\n(V)\t(A)\t(s)")]
+    [InlineData("V,I,t\nV,A,s")]
+    public void Parse_NamesRowThenUnitsRow_UnitsApplied(string header)
+    {
+        string d = header.Contains('\t', StringComparison.Ordinal) ? "\t" : ",";
+        ImportDescription desc = IvFileReader.DescribeText(Rows(header, k => $"{R(V[k])}{d}{R(I[k])}{d}{k}"), "nu.txt");
+        Assert.Equal(2, desc.UnitsLine);
+        Assert.Equal(IvColumnKind.Time, desc.Columns[2].Kind);
+        AssertPoints(desc.Curve);
+    }
+
+    [Fact]
+    public void Parse_CurrentDensityAbsAndTime_SignedCurrentReadAndAreaFromIOverJ()
+    {
+        // Invented Kestrel data in the column order of the ddomlab molecular-junction files.
+        const double areaCm2 = 2.5e-5;
+        string text = Rows("voltage_1_1\tabsJ_1_1\tJ_1_1\tcurrent_1_1\ttime_1_1\t",
+            k => $"{R(V[k])}\t{R(Math.Abs(I[k]) / areaCm2)}\t{R(I[k] / areaCm2)}\t{R(I[k])}\t{R(0.5 * k)}");
+        ImportDescription d = IvFileReader.DescribeText(text, "j.txt");
+        Assert.Equal((1, 4), (d.VoltageColumn, d.CurrentColumn));
+        AssertPoints(d.Curve);
+        Assert.Equal(
+            [IvColumnKind.Voltage, IvColumnKind.AbsoluteCurrentDensity, IvColumnKind.CurrentDensity, IvColumnKind.Current, IvColumnKind.Time],
+            d.Columns.Select(c => c.Kind).ToArray());
+        Assert.Equal(areaCm2 * 1e-4, d.Curve.AreaM2!.Value, areaCm2 * 1e-4 * 1e-12);
+        Assert.Contains(d.Curve.Warnings, w => w.StartsWith("columns by name: voltage 'voltage_1_1' (1), current 'current_1_1' (4); ignored: absJ_1_1 (|J|, A/cm²), J_1_1 (J, A/cm²), time_1_1 (time, s)", StringComparison.Ordinal));
+        Assert.Contains(d.Curve.Warnings, w => w.StartsWith("area ", StringComparison.Ordinal) && w.Contains("--area-from-file", StringComparison.Ordinal));
+        // A column's reason is shown by inspect.
+        Assert.Contains(d.ToTextLines(), l => l.StartsWith("  2: 'absJ_1_1' -> ignored [A/cm²] — |J| by its name", StringComparison.Ordinal));
+    }
+
+    [Fact]
+    public void Parse_CurrentAndDensityWithVaryingRatio_WarnsAndDerivesNoArea()
+    {
+        string text = Rows("V,I (A),J (A/cm2)", k => $"{R(V[k])},{R(I[k])},{R(I[k] * (1 + (0.1 * k)) * 1e4)}");
+        IvCurve c = IvFileReader.Parse(text, "jv.csv");
+        Assert.Null(c.AreaM2);
+        Assert.Contains(c.Warnings, w => w.StartsWith("area not derived from I/J", StringComparison.Ordinal) && w.Contains("varies", StringComparison.Ordinal));
+        AssertPoints(c);
+    }
+
+    [Fact]
+    public void Parse_StatedAreaDisagreeingWithIOverJ_KeepsStatedAndWarns()
+    {
+        string text = "# area: 100 um2\n" + Rows("V,I (A),J (A/cm2)", k => $"{R(V[k])},{R(I[k])},{R(I[k] / 2e-6)}");
+        IvCurve c = IvFileReader.Parse(text, "ja.csv");
+        Assert.Equal(1e-10, c.AreaM2!.Value, 1e-22);
+        Assert.Contains(c.Warnings, w => w.Contains("but I/J gives", StringComparison.Ordinal));
+    }
+
+    [Fact]
+    public void Parse_DensityWithAreaAndAbsCurrent_PrefersCurrentOverDensity()
+    {
+        string text = "# area: 100 um2\n" + Rows("V,J (A/m2),|I| (A)", k => $"{R(V[k])},{R(I[k] / 1e-10)},{R(Math.Abs(I[k]))}");
+        ImportDescription d = IvFileReader.DescribeText(text, "ji.csv");
+        Assert.Equal(3, d.CurrentColumn);
+        Assert.Equal(IvColumnKind.AbsoluteCurrent, d.Columns[2].Kind);
+        // The sign comes from the bias.
+        AssertPoints(d.Curve);
+        Assert.Contains(d.Curve.Warnings, w => w.Contains("sign of each point is taken from its bias", StringComparison.Ordinal));
+    }
+
+    [Theory]
+    [InlineData("Voltage,abs(I)")]
+    [InlineData("Voltage,|I| (A)")]
+    [InlineData("V (V),absI_1")]
+    public void Parse_OnlyAbsoluteCurrent_SignFromBias(string header)
+    {
+        IvCurve c = IvFileReader.Parse(Rows(header, k => $"{R(V[k])},{R(Math.Abs(I[k]))}"), "ai.csv");
+        AssertPoints(c);
+    }
+
+    [Fact]
+    public void Parse_IndexAndTimeColumns_AreRecognisedAndIgnored()
+    {
+        string text = Rows("Point,#,time (s),t,V,I", k => $"{k},{k + 1},{0.5 * k},{0.5 * k},{R(V[k])},{R(I[k])}");
+        ImportDescription d = IvFileReader.DescribeText(text, "it.csv");
+        Assert.Equal((5, 6), (d.VoltageColumn, d.CurrentColumn));
+        Assert.Equal([IvColumnKind.Index, IvColumnKind.Index, IvColumnKind.Time, IvColumnKind.Time], d.Columns.Take(4).Select(c => c.Kind).ToArray());
+        Assert.All(d.Columns.Take(4), c => Assert.Equal(IvColumnRole.Ignored, c.Role));
+        AssertPoints(d.Curve);
+    }
+
+    [Fact]
+    public void Parse_TerminalCurrents_ReadsTheGateCurrentAndSaysSo()
+    {
+        // Column names of the IHP Open PDK MOS measurement files (Apache-2.0); the values are invented.
+        string text = "# area: 100 um2\n" + Rows("vd,vg,id,ig,ib,is", k => $"0.05,{R(V[k])},1e-6,{R(I[k])},1e-12,-1e-6");
+        ImportDescription d = IvFileReader.DescribeText(text, "mos.csv");
+        Assert.Equal((2, 4), (d.VoltageColumn, d.CurrentColumn));
+        AssertPoints(d.Curve);
+        Assert.Contains(d.Curve.Warnings, w => w.StartsWith("several terminal currents (id, ig, ib, is): the gate current 'ig' (column 4)", StringComparison.Ordinal));
+    }
+
+    [Fact]
+    public void Parse_CapacitanceFile_RefusedPointingToCv()
+    {
+        var e = Assert.Throws<IvFormatException>(() => IvFileReader.Parse(Rows("Vg (V),C (pF)", k => $"{R(V[k])},{k + 1}"), "cv.csv"));
+        Assert.Contains("capacitance–voltage", e.Reason, StringComparison.Ordinal);
+        Assert.Contains("--cv", e.Reason, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Parse_MissingColumns_MessagesNameTheCliOptions()
+    {
+        var e = Assert.Throws<IvFormatException>(() => IvFileReader.Parse("a,b,c\n0.1,1e-9,5\n0.2,2e-9,6\n", "o.csv"));
+        Assert.Contains("--voltage-column", e.Reason, StringComparison.Ordinal);
+        e = Assert.Throws<IvFormatException>(() => IvFileReader.Parse("V,Current (A),Current (A)\n0.1,1e-9,5\n0.2,2e-9,6\n", "o.csv"));
+        Assert.Contains("--current-column", e.Reason, StringComparison.Ordinal);
+        e = Assert.Throws<IvFormatException>(() => IvFileReader.Parse("V (V),I (Zz)\n0.1,1e-9\n0.2,2e-9\n", "o.csv"));
+        Assert.Contains("--current-unit", e.Reason, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Parse_StackedTraces_SegmentsPerTraceAndTraceCount()
+    {
+        double[] one = [0, 0.5, 1, 0.5, 0, -0.5, -1, -0.5, 0];
+        double[] v = [.. one, .. one, .. one];
+        string text = "V,I\n" + string.Join("\n", v.Select(x => $"{R(x)},{R(x * 1e-9)}"));
+        ImportDescription d = IvFileReader.DescribeText(text, "stack.csv");
+        Assert.Equal(3, d.TraceCount);
+        Assert.Equal(9, d.TotalSegments);
+        Assert.Equal(["up", "down", "up", "up", "down", "up", "up", "down", "up"], d.Segments.Select(s => s.Direction).ToArray());
+        // Start bias measured twice between traces: the first 0 ends a trace, the second starts the next.
+        Assert.Equal([2, 11, 20], new[] { d.Segments[0].FirstLine, d.Segments[3].FirstLine, d.Segments[6].FirstLine });
+    }
+
+    [Fact]
+    public void Parse_StackedTracesSharingTheStartPoint_TheSharedPointStartsTheNextTrace()
+    {
+        double[] v = [0, 1, 0, 1, 0, 1, 0];
+        string text = "V,I\n" + string.Join("\n", v.Select(x => $"{R(x)},{R(x * 1e-9)}"));
+        ImportDescription d = IvFileReader.DescribeText(text, "uni.csv");
+        Assert.Equal(3, d.TraceCount);
+        // Traces 0 → 1, 0 → 1, 0 → 1 → 0: the turn point ends its segment, as in one trace.
+        Assert.Equal([0, 0, 1, 1, 2, 2, 3], d.Curve.Segments.ToArray());
+        Assert.Equal(["up", "up", "up", "flat"], d.Segments.Select(s => s.Direction).ToArray());
+    }
+
+    [Fact]
+    public void Parse_BipolarLoopReturningOnce_IsOneTrace()
+    {
+        double[] v = [-1, 0, 1, 0, -1];
+        string text = "V,I\n" + string.Join("\n", v.Select(x => $"{R(x)},{R(x * 1e-9)}"));
+        ImportDescription d = IvFileReader.DescribeText(text, "bi.csv");
+        Assert.Equal(1, d.TraceCount);
+        Assert.Equal(2, d.TotalSegments);
+    }
 }

@@ -15,8 +15,8 @@ public class IvFileReaderPropertyTests
     private const long Iterations = 10_000;
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
-    private static readonly string[] VoltageNames = ["Voltage", "V", "Bias", "Vbias", "U", "Vd", "Vforce"];
-    private static readonly string[] CurrentNames = ["Current", "I", "Id", "Imeas", "Idrain"];
+    private static readonly string[] VoltageNames = ["Voltage", "V", "Bias", "Vbias", "U", "Vd", "Vforce", "voltage_1_1", "voltage_1_2_11", "V_2", "Vg"];
+    private static readonly string[] CurrentNames = ["Current", "I", "Id", "Imeas", "Idrain", "current_1_1", "current_1_2_11", "I_2", "Ig"];
     private static readonly string[] VoltageUnits = ["V", "mV", "uV", "µV", "kV"];
     private static readonly string[] CurrentUnits = ["A", "mA", "uA", "µA", "nA", "pA", "A/cm2", "mA/cm²", "A/m^2"];
     private static readonly char[] Delimiters = [',', ';', '\t', ' ', '|'];
@@ -31,7 +31,14 @@ public class IvFileReaderPropertyTests
         Gen.Select(Gen.Int, GenPoint.Array[2, 30]);
 
     /// <summary>A file layout chosen from a seed, and the text it produces.</summary>
-    internal sealed record GeneratedFile(byte[] Bytes, string Description, double[] V, double[] I, double RelTol);
+    internal sealed record GeneratedFile(byte[] Bytes, string Description, double[] V, double[] I, double RelTol)
+    {
+        /// <summary>The file also holds |J| and J columns in A/cm² for an area of <see cref="ColumnAreaCm2"/>.</summary>
+        public bool DensityColumns { get; init; }
+    }
+
+    /// <summary>Area behind the generated |J| and J columns, in cm².</summary>
+    private const double ColumnAreaCm2 = 1.257e-5;
 
     internal static GeneratedFile Write(int seed, (double V, double I)[] points)
     {
@@ -41,7 +48,12 @@ public class IvFileReaderPropertyTests
         bool quoteNumbers = (delim == ',' && decimalComma) || rng.Next(6) == 0;
         bool quoteHeader = rng.Next(5) == 0;
         bool header = rng.Next(12) != 0;
-        int notation = header ? rng.Next(delim == ' ' ? 6 : 7) : 0; // 0 none, 1 (), 2 [], 3 /, 4 _, 5 units row, 6 space
+        int notation = header ? rng.Next(8) : 0; // 0 none, 1 (), 2 [], 3 /, 4 _, 5 units row, 6 space, 7 bracketed units row
+        if (delim == ' ' && notation == 6)
+        {
+            notation = 7;
+        }
+        bool trailingHeaderDelimiter = header && delim != ' ' && rng.Next(4) == 0;
         string vUnitText = notation == 0 ? "V" : VoltageUnits[rng.Next(VoltageUnits.Length)];
         string iUnitText = notation == 0 ? "A" : CurrentUnits[rng.Next(CurrentUnits.Length)];
         _ = UnitParser.TryParse(vUnitText, out UnitScale vUnit);
@@ -49,6 +61,9 @@ public class IvFileReaderPropertyTests
         bool density = iUnit.Kind == QuantityKind.CurrentDensity;
         const double areaM2 = 1e-10;
         int extras = header ? rng.Next(4) : rng.Next(2);
+        // With a header, sometimes |J| and J columns beside the current (as in molecular-junction files):
+        // the current is still read, and I/J gives the area.
+        bool densityColumns = header && !density && rng.Next(4) == 0;
         string nl = LineEnds[rng.Next(LineEnds.Length)];
         string encoding = Encodings[rng.Next(Encodings.Length)];
 
@@ -57,6 +72,11 @@ public class IvFileReaderPropertyTests
         for (int k = 0; k < extras; k++)
         {
             cols.Add(2 + k);
+        }
+        if (densityColumns)
+        {
+            cols.Add(5);
+            cols.Add(6);
         }
         if (header)
         {
@@ -107,8 +127,8 @@ public class IvFileReaderPropertyTests
             var cells = new List<string>();
             foreach (int c in cols)
             {
-                string name = c switch { 0 => vName, 1 => iName, 2 => "Index", 3 => "Time", _ => "Status" };
-                string unit = c switch { 0 => vUnitText, 1 => iUnitText, 2 => "#", 3 => "s", _ => "-" };
+                string name = c switch { 0 => vName, 1 => iName, 2 => "Index", 3 => "Time", 4 => "Status", 5 => "absJ_1_1", _ => "J_1_1" };
+                string unit = c switch { 0 => vUnitText, 1 => iUnitText, 2 => "#", 3 => "s", 4 => "-", _ => "A/cm2" };
                 string cell = notation switch
                 {
                     1 => $"{name} ({unit})",
@@ -118,21 +138,22 @@ public class IvFileReaderPropertyTests
                     6 => $"{name} {unit}",
                     _ => name,
                 };
-                if (notation is 3 or 4 or 6 && c >= 2)
+                if (notation is 3 or 4 or 6 or 7 && c >= 2)
                 {
                     cell = name;
                 }
                 cells.Add(Q(cell, quoteHeader));
             }
-            sb.AppendJoin(Sep(), cells).Append(nl);
-            if (notation == 5)
+            sb.AppendJoin(Sep(), cells).Append(trailingHeaderDelimiter ? Sep() : string.Empty).Append(nl);
+            if (notation is 5 or 7)
             {
                 var units = new List<string>();
                 foreach (int c in cols)
                 {
-                    units.Add(c switch { 0 => vUnitText, 1 => iUnitText, 2 => "#", 3 => "s", _ => "-" });
+                    string u = c switch { 0 => vUnitText, 1 => iUnitText, 2 => "#", 3 => "s", 4 => "-", _ => "A/cm2" };
+                    units.Add(notation == 7 ? $"[{u}]" : u);
                 }
-                sb.AppendJoin(Sep(), units).Append(nl);
+                sb.AppendJoin(Sep(), units).Append(trailingHeaderDelimiter ? Sep() : string.Empty).Append(nl);
             }
         }
 
@@ -152,7 +173,9 @@ public class IvFileReaderPropertyTests
                     1 => Num(iUnit.FromSi(density ? i / areaM2 : i)),
                     2 => r.ToString(Inv),
                     3 => Num(0.25 * r),
-                    _ => Q("OK", quoteNumbers),
+                    4 => Q("OK", quoteNumbers),
+                    5 => Num(Math.Abs(i) / ColumnAreaCm2),
+                    _ => Num(i / ColumnAreaCm2),
                 });
             }
             if (delim == ' ' && rng.Next(4) == 0)
@@ -171,9 +194,9 @@ public class IvFileReaderPropertyTests
             "utf16be-bom" => [.. Encoding.BigEndianUnicode.GetPreamble(), .. Encoding.BigEndianUnicode.GetBytes(text)],
             _ => Encoding.Unicode.GetBytes(text),
         };
-        string description = $"delim={IvTableParser.DelimiterName(delim)} comma={decimalComma} quote={quoteNumbers}/{quoteHeader} header={header} notation={notation} units={vUnitText},{iUnitText} extras={extras} order={string.Join("", cols)} nl={nl.Replace("\r", "CR").Replace("\n", "LF")} enc={encoding}\n{text}";
+        string description = $"delim={IvTableParser.DelimiterName(delim)} comma={decimalComma} quote={quoteNumbers}/{quoteHeader} header={header} trailing={trailingHeaderDelimiter} densities={densityColumns} notation={notation} units={vUnitText},{iUnitText} extras={extras} order={string.Join("", cols)} nl={nl.Replace("\r", "CR").Replace("\n", "LF")} enc={encoding}\n{text}";
         bool si = vUnit.PowerOfTen == 0 && iUnit.PowerOfTen == 0 && !density;
-        return new GeneratedFile(bytes, description, vs, cs, si ? 0 : density ? 1e-14 : 1e-15);
+        return new GeneratedFile(bytes, description, vs, cs, si ? 0 : density ? 1e-14 : 1e-15) { DensityColumns = densityColumns };
     }
 
     [Fact]
@@ -195,6 +218,11 @@ public class IvFileReaderPropertyTests
             {
                 throw new InvalidOperationException($"read {c.Count} of {f.V.Length} points\n{f.Description}");
             }
+            // I/J of the generated columns is the area (exact up to the "R" round-trip of the printed numbers).
+            if (f.DensityColumns && HasThreeWellAboveZero(f.I) && !(c.AreaM2 is double a && Close(a, ColumnAreaCm2 * 1e-4, 1e-9)))
+            {
+                throw new InvalidOperationException($"area from I/J is {c.AreaM2:R}, not {ColumnAreaCm2 * 1e-4:R}\n{f.Description}");
+            }
             for (int k = 0; k < c.Count; k++)
             {
                 if (!Close(c.VoltageV[k], f.V[k], f.RelTol) || !Close(c.CurrentA[k], f.I[k], f.RelTol))
@@ -204,6 +232,12 @@ public class IvFileReaderPropertyTests
                 }
             }
         }, iter: Iterations);
+    }
+
+    private static bool HasThreeWellAboveZero(double[] current)
+    {
+        double max = current.Max(Math.Abs);
+        return current.Count(x => Math.Abs(x) >= 1e-3 * max) >= 3;
     }
 
     private static bool Close(double a, double b, double rel)
