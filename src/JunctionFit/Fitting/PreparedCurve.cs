@@ -130,7 +130,13 @@ internal sealed record PreparedCurve(
                 both |= groups[u] != groups[0];
                 u++;
             }
-            estimated = both ? NoiseEstimator.RelativeNoise(v2, y2, groups) : NoiseEstimator.RelativeNoise(v2, y2);
+            // The second differences are taken both in ln|I| and in ln|I/V| against V, and the smaller estimate is kept: each
+            // adds the local curvature of its curve to the noise, and ln|I/V| is nearly flat where ln|I| bends most (near 0 V).
+            var g2 = new double[usedCount];
+            for (int u = 0; u < usedCount; u++) g2[u] = y2[u] - Math.Log(Math.Abs(v2[u]));
+            double? inCurrent = both ? NoiseEstimator.RelativeNoise(v2, y2, groups) : NoiseEstimator.RelativeNoise(v2, y2);
+            double? inConductance = both ? NoiseEstimator.RelativeNoise(v2, g2, groups) : NoiseEstimator.RelativeNoise(v2, g2);
+            estimated = inCurrent is double a && inConductance is double b ? Math.Min(a, b) : inCurrent ?? inConductance;
         }
         double relative = options.RelativeNoise ?? estimated ?? 1.0;
         var invSigma = new double[usedCount];
