@@ -20,7 +20,8 @@ public static class MosBranch
     /// <summary>The curve with the points outside the default branch masked, and a warning; the curve itself when nothing is masked.</summary>
     /// <param name="curve">The measured curve.</param>
     /// <param name="model">The MOS model (its substrate sets the polarity).</param>
-    public static IvCurve Select(IvCurve curve, MosGateStackModel model)
+    /// <param name="decades">Decades of current below the largest that are kept (default <see cref="DecadesBelowMaximum"/>).</param>
+    public static IvCurve Select(IvCurve curve, MosGateStackModel model, double decades = DecadesBelowMaximum)
     {
         ArgumentNullException.ThrowIfNull(curve);
         ArgumentNullException.ThrowIfNull(model);
@@ -31,7 +32,7 @@ public static class MosBranch
             double v = curve.VoltageV[i], c = curve.CurrentA[i];
             if (Math.Sign(v) == sign && Math.Sign(c) == sign && double.IsFinite(c)) max = Math.Max(max, Math.Abs(c));
         }
-        double threshold = max * Math.Pow(10.0, -DecadesBelowMaximum);
+        double threshold = max * Math.Pow(10.0, -Common.Guard.Positive(decades));
         var mask = ImmutableArray.CreateBuilder<bool>(n);
         int outside = 0;
         for (int i = 0; i < n; i++)
@@ -44,7 +45,7 @@ public static class MosBranch
         }
         if (outside == 0) return curve;
         string polarity = sign > 0 ? "V_g > 0 (p substrate)" : "V_g < 0 (n substrate)";
-        string note = $"mos: fitted the inversion branch, {polarity}, where the gate current lies within {DecadesBelowMaximum:0} decades of its largest value; " +
+        string note = $"mos: fitted the inversion branch, {polarity}, where the gate current lies within {decades:0.#} decades of its largest value; " +
                       $"{outside} point(s) outside it are left out (reported as flagged by the importer)";
         return curve with { ImportMask = mask.MoveToImmutable(), Warnings = curve.Warnings.Add(note) };
     }

@@ -63,7 +63,7 @@ public static class CvAnalysis
         bool saturated = !atEnd || Math.Abs(cs[neighbour] / cMax - 1) < 0.02;
         if (!saturated)
         {
-            notes.Add($"C still rises at the end of the sweep ({cs[neighbour] / cMax - 1:P1} over the last step): C_max is below the oxide capacitance and CET is an upper bound");
+            notes.Add($"C still rises at the end of the sweep (by {1 - cs[neighbour] / cMax:P1} over the last step): C_max is below the oxide capacitance and CET is an upper bound");
         }
 
         // Depletion side: the side of C_max opposite the maximum, points with 1.1·C_min < C < 0.5·C_max.

@@ -271,8 +271,9 @@ public sealed class MosElectrostatics
             return c0 * psi;
         }
         double f = Math.Sqrt(f2);
-        surfaceCapacitance = ChargeScale * (dMajor + Ratio * dMinor) / (2.0 * f) / vt;
-        return (u > 0 ? 1.0 : -1.0) * ChargeScale * f;
+        double sign = u > 0 ? 1.0 : -1.0;
+        surfaceCapacitance = sign * ChargeScale * (dMajor + Ratio * dMinor) / (2.0 * f) / vt; // dQ_g/dψ > 0 on both sides
+        return sign * ChargeScale * f;
     }
 
     /// <summary>Mobile charge |Q_inv| (ψ &gt; 0) or |Q_acc| (ψ &lt; 0) in the p-type frame, C/m².</summary>
