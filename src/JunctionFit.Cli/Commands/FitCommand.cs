@@ -113,6 +113,26 @@ internal sealed class FitOptionSet
         Description = "keep the first point of a trace even when it looks like a settling artefact (by default it is left out, with a warning)",
     };
 
+    public Option<string?> Substrate { get; } = new("--substrate")
+    {
+        Description = "mos model: substrate type p (n-channel devices, inversion at positive gate bias; the default) or n (p-channel devices)",
+    };
+
+    public Option<string?> Doping { get; } = new("--doping")
+    {
+        Description = "mos model: substrate doping in cm^-3 (for example 3e17; suffix m-3 for SI); default 1e17 cm^-3, noted in the warnings",
+    };
+
+    public Option<string?> Gate { get; } = new("--gate")
+    {
+        Description = "mos model: gate n+poly, p+poly or metal (default: n+poly on a p substrate, p+poly on an n substrate)",
+    };
+
+    public Option<string?> GateDoping { get; } = new("--gate-doping")
+    {
+        Description = "mos model: doping of a poly gate in cm^-3, sets the poly depletion (default 2e20)",
+    };
+
     public Option<bool> AreaFromFile { get; } = new("--area-from-file")
     {
         Description = "fix the area at each file's stated area (its 'area' metadata) where it states one",
@@ -140,6 +160,10 @@ internal sealed class FitOptionSet
         command.Options.Add(SweepDirection);
         command.Options.Add(MisfitTolerance);
         command.Options.Add(KeepSettling);
+        command.Options.Add(Substrate);
+        command.Options.Add(Doping);
+        command.Options.Add(Gate);
+        command.Options.Add(GateDoping);
     }
 
     /// <summary>Parses --bias-window LO:HI and --polarity into the window ends in volt (null: open).</summary>
@@ -188,6 +212,64 @@ internal sealed class FitOptionSet
         return (low, high, parts.Count > 0 ? string.Join(", ", parts) : null);
     }
 
+    /// <summary>The gate stack of the mos model from --substrate, --doping, --gate and --gate-doping.</summary>
+    public MosStackOptions BuildMosStack(ParseResult parse)
+    {
+        var stack = MosStackOptions.Default;
+        if (parse.GetValue(Substrate) is string sub)
+        {
+            stack = stack with
+            {
+                Substrate = sub.Trim().ToLowerInvariant() switch
+                {
+                    "p" or "p-type" => SubstrateType.P,
+                    "n" or "n-type" => SubstrateType.N,
+                    _ => throw new UsageException($"--substrate: '{sub}' must be p or n"),
+                },
+            };
+        }
+        if (parse.GetValue(Gate) is string gate)
+        {
+            stack = stack with
+            {
+                Gate = gate.Trim().ToLowerInvariant().Replace(" ", "", StringComparison.Ordinal) switch
+                {
+                    "n+poly" or "npoly" or "n+" or "n" => GateType.NPoly,
+                    "p+poly" or "ppoly" or "p+" or "p" => GateType.PPoly,
+                    "metal" => GateType.Metal,
+                    _ => throw new UsageException($"--gate: '{gate}' must be n+poly, p+poly or metal"),
+                },
+            };
+        }
+        if (parse.GetValue(Doping) is string doping)
+        {
+            double n = ParseDensityM3(doping, "--doping");
+            if (!(n >= 1e18 && n <= 1e26)) throw new UsageException($"--doping: {doping} must lie between 1e12 and 1e20 cm^-3");
+            stack = stack with { DopingM3 = n, DopingStated = true };
+        }
+        if (parse.GetValue(GateDoping) is string gateDoping)
+        {
+            double n = ParseDensityM3(gateDoping, "--gate-doping");
+            if (!(n >= 1e24 && n <= 1e28)) throw new UsageException($"--gate-doping: {gateDoping} must lie between 1e18 and 1e22 cm^-3");
+            stack = stack with { GateDopingM3 = n };
+        }
+        return stack;
+    }
+
+    /// <summary>A density: a bare number is cm⁻³; suffixes cm-3 and m-3.</summary>
+    private static double ParseDensityM3(string text, string option)
+    {
+        string t = text.Trim();
+        double factor = 1e6;
+        if (t.EndsWith("cm-3", StringComparison.OrdinalIgnoreCase)) t = t[..^4];
+        else if (t.EndsWith("m-3", StringComparison.OrdinalIgnoreCase)) { t = t[..^3]; factor = 1.0; }
+        if (!double.TryParse(t.Trim(), System.Globalization.NumberStyles.Float, System.Globalization.CultureInfo.InvariantCulture, out double v) || !(v > 0) || !double.IsFinite(v))
+        {
+            throw new UsageException($"{option}: '{text}' is not a positive number (cm^-3, or with the suffix m-3)");
+        }
+        return v * factor;
+    }
+
     /// <summary>Parasitic parameters that <c>--free</c> or <c>--fix</c> switch on by naming them.</summary>
     internal static readonly (ParameterDefinition Def, Func<ParasiticOptions, ParasiticOptions> Enable)[] ParasiticSwitches =
     [
@@ -210,6 +292,13 @@ internal sealed class FitOptionSet
         if (permittivity is double er && (!(er >= 1) || !double.IsFinite(er))) throw new UsageException($"--permittivity: {er} must be at least 1");
         var modelOptions = BarrierModelOptions.Default with { TemperatureK = temperature };
         if (permittivity is double eps) modelOptions = modelOptions with { RelativePermittivity = eps };
+        bool mos = names.Contains(BarrierModelCatalog.Mos);
+        var mosStack = BuildMosStack(parse);
+        if (!mos && (parse.GetValue(Substrate) ?? parse.GetValue(Doping) ?? parse.GetValue(Gate) ?? parse.GetValue(GateDoping)) is not null)
+        {
+            throw new UsageException("--substrate, --doping, --gate and --gate-doping apply to --model mos only");
+        }
+        modelOptions = modelOptions with { Mos = mosStack };
 
         // Parasitic elements are switched on by naming them in --free or --fix.
         string[] freeNames = parse.GetValue(Free) ?? [];
@@ -252,8 +341,18 @@ internal sealed class FitOptionSet
             freed.Add(def.Key);
             summary.Add($"free {ParameterNames.CliName(def)}");
         }
+        // The mos model has its own oxide masses (electrons 0.40, holes 0.32): --mass-ratio applies only when given.
+        bool massGiven = !mos || parse.GetResult(MassRatio) is { Implicit: false };
+        if (!massGiven)
+        {
+            var mosModel = (MosGateStackModel)models.First(m => m.Barrier is MosGateStackModel).Barrier;
+            massRatio = mosModel.Parameters[MosGateStackModel.MassRatioIndex].DefaultSi;
+            var gate = mosStack.EffectiveGate;
+            summary.Add($"{(mosStack.Substrate == SubstrateType.P ? "p" : "n")} substrate, {MosGateStackModel.GateText(gate)} gate, doping " +
+                        $"{mosStack.DopingM3 / 1e6:0.##e+0} cm^-3{(mosStack.DopingStated ? "" : " (assumed)")}");
+        }
         if (freed.Contains(StandardParameters.MassRatio.Key)) starts[StandardParameters.MassRatio.Key] = massRatio;
-        else fixedValues[StandardParameters.MassRatio.Key] = massRatio;
+        else if (massGiven) fixedValues[StandardParameters.MassRatio.Key] = massRatio;
         summary.Add(freed.Contains(StandardParameters.MassRatio.Key) ? $"mass ratio free (start {massRatio})" : $"mass ratio fixed at {massRatio}");
         if (parse.GetValue(Area) is string areaText)
         {
@@ -352,6 +451,12 @@ internal sealed class FitOptionSet
         yield return new("temperature_from_file", plan.TemperatureFromFile ? "true" : "false");
         yield return new("relative_permittivity", plan.ModelOptions.RelativePermittivity.ToString("R", System.Globalization.CultureInfo.InvariantCulture));
         yield return new("intervals", $"{plan.Intervals}:{plan.BootstrapReplicates}:{plan.BootstrapSeed}");
+        if (plan.ModelNames.Contains(BarrierModelCatalog.Mos))
+        {
+            var m = plan.ModelOptions.Mos;
+            yield return new("mos_stack", string.Create(System.Globalization.CultureInfo.InvariantCulture,
+                $"{m.Substrate}:{m.EffectiveGate}:{m.DopingM3:R}:{m.GateDopingM3:R}"));
+        }
         yield return new("parasitics", $"{plan.Parasitics.SeriesResistance},{plan.Parasitics.LeakageConductance},{plan.Parasitics.VoltageOffset},{plan.Parasitics.CurrentOffset}");
     }
 
@@ -362,6 +467,20 @@ internal sealed class FitOptionSet
             if (string.Equals(known, name, StringComparison.OrdinalIgnoreCase)) return known;
         }
         throw new UsageException($"--model: unknown model '{name}'; choose one of: {string.Join(", ", ModelResolver.Names)}, auto");
+    }
+}
+
+/// <summary>Reads a C–V file for <c>--cv</c> and analyses it.</summary>
+internal static class CapacitanceVoltageInput
+{
+    /// <summary>Reads and analyses; the area is <paramref name="areaM2"/> or the file's metadata.</summary>
+    /// <exception cref="IvFormatException">Unreadable file, or no area.</exception>
+    public static CvSummary Read(string path, double? areaM2, double oxidePermittivity)
+    {
+        var curve = CvFileReader.Read(path);
+        double area = areaM2 ?? curve.AreaM2
+            ?? throw new IvFormatException(path, 0, "the C-V file states no area ('# area: 120000 um2'); give --cv-area");
+        return CvAnalysis.Analyse(curve.VoltageV.AsSpan(), curve.CapacitanceF.AsSpan(), area, oxidePermittivity, curve.TemperatureK ?? 300.0);
     }
 }
 
@@ -379,12 +498,16 @@ internal static class FitCommand
         var json = new Option<bool>("--json") { Description = "print one JSON object per input file, one per line, and nothing else on standard output" };
         var outDir = new Option<string?>("--out") { Description = "write each file's fit plot (PNG), summary.csv and report.html into this folder" };
         var jobs = new Option<int?>("--jobs") { Description = "parallel fits (default: the number of cores)" };
+        var cv = new Option<string?>("--cv") { Description = "a capacitance-voltage file of the same gate stack: reports CET = eps_ox*A/C_max beside the fitted oxide thickness (JSON key cet_nm)" };
+        var cvArea = new Option<string?>("--cv-area") { Description = "area of the C-V capacitor (bare number: µm²; suffixes um2, m2, cm2, nm2); default: the C-V file's 'area' metadata" };
         var command = new Command("fit", "Fit a barrier model to I–V files and report barrier height, thickness and area with 95 % intervals.");
         command.Arguments.Add(paths);
         fitOptions.AddTo(command);
         command.Options.Add(json);
         command.Options.Add(outDir);
         command.Options.Add(jobs);
+        command.Options.Add(cv);
+        command.Options.Add(cvArea);
         var read = new ReadOptionSet();
         read.AddTo(command);
         command.SetAction(parse =>
@@ -392,7 +515,28 @@ internal static class FitCommand
             var (plan, summary) = fitOptions.Build(parse);
             int jobCount = parse.GetValue(jobs) ?? Environment.ProcessorCount;
             if (jobCount < 1) throw new UsageException($"--jobs: {jobCount} must be at least 1");
-            var run = new FitRun(context, plan, read.Build(parse), summary, parse.GetValue(json), parse.GetValue(outDir), null, jobCount);
+            CvSummary? cvSummary = null;
+            if (parse.GetValue(cv) is string cvPath)
+            {
+                double? area = parse.GetValue(cvArea) is string areaText ? QuantityParser.ParseAreaM2(areaText) : null;
+                try
+                {
+                    cvSummary = CapacitanceVoltageInput.Read(cvPath, area, plan.ModelOptions.Mos.OxidePermittivity);
+                }
+                catch (IvFormatException e)
+                {
+                    context.Error.WriteLine(e.Message);
+                    return ExitCodes.UsageOrInput;
+                }
+            }
+            else if (parse.GetValue(cvArea) is not null)
+            {
+                throw new UsageException("--cv-area needs --cv FILE");
+            }
+            var run = new FitRun(context, plan, read.Build(parse), summary, parse.GetValue(json), parse.GetValue(outDir), null, jobCount)
+            {
+                CapacitanceVoltage = cvSummary,
+            };
             return run.Execute(parse.GetValue(paths) ?? []);
         });
         return command;

@@ -14,6 +14,9 @@ namespace JunctionFit.Cli.Commands;
 internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions readOptions, string optionSummary,
     bool json, string? outDir, string? plotSubfolder, int jobs)
 {
+    /// <summary>The C–V summary of <c>--cv</c>, attached to every result; null without a C–V file.</summary>
+    public CvSummary? CapacitanceVoltage { get; init; }
+
     public int Execute(IReadOnlyList<string> paths)
     {
         var (files, missing) = InputFiles.Expand(paths);
@@ -55,7 +58,7 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
             {
                 fitted++;
             }
-            var result = outcome.Result;
+            var result = CapacitanceVoltage is null ? outcome.Result : outcome.Result with { CapacitanceVoltage = CapacitanceVoltage };
             if (result.Status != FitStatus.Ok) notOk++;
             if (result.Status == FitStatus.Failed) failed++;
             if (result.Status == FitStatus.Failed && outcome.ReadError is null)
@@ -81,6 +84,11 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
         if (!json)
         {
             context.Out.Write(SummaryTableWriter.FormatConsoleTable(summaries));
+            if (CapacitanceVoltage is { } cv)
+            {
+                context.Out.WriteLine();
+                foreach (string line in ThicknessBesideCet.Lines(summaries, cv)) context.Out.WriteLine(line);
+            }
             foreach (var r in summaries)
             {
                 if (r.ModelComparison.Length == 0) continue;

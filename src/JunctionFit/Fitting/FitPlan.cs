@@ -93,6 +93,7 @@ public sealed class FitPlan
     public FitResult Fit(IvCurve curve)
     {
         var models = ModelsFor(curve);
+        if (models.Count == 1 && models[0].Barrier is MosGateStackModel mos) curve = MosBranch.Select(curve, mos);
         var fit = models.Count == 1 ? JunctionFitter.Fit(curve, models[0], Options) : ModelSelection.FitBest(curve, models, Options);
         if (Intervals == IntervalMethod.Wald || fit.Status == FitStatus.Failed) return fit;
         var model = models.FirstOrDefault(m => m.Barrier.Name == fit.Model) ?? models[0];

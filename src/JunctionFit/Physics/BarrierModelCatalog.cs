@@ -20,8 +20,11 @@ public static class BarrierModelCatalog
     /// <summary>Numerical Tsu–Esaki current with WKB transmission.</summary>
     public const string Wkb = "wkb";
 
+    /// <summary>MOS gate stack: exact electrostatics and Lee–Hu direct tunnelling.</summary>
+    public const string Mos = "mos";
+
     /// <summary>All model names, in the order of the documentation.</summary>
-    public static IReadOnlyList<string> Names { get; } = [Simmons, SimmonsImage, Bdr, FowlerNordheim, Wkb];
+    public static IReadOnlyList<string> Names { get; } = [Simmons, SimmonsImage, Bdr, FowlerNordheim, Wkb, Mos];
 
     /// <summary>Builds the model called <paramref name="name"/>.</summary>
     /// <param name="name">One of <see cref="Names"/> (case-insensitive).</param>
@@ -39,6 +42,7 @@ public static class BarrierModelCatalog
             Bdr => BrinkmanDynesRowellModel.Instance,
             FowlerNordheim => FowlerNordheimModel.Instance,
             Wkb => new WkbModel(options),
+            Mos => new MosGateStackModel(options.Mos, options.TemperatureK),
             _ => throw new ArgumentException($"unknown model '{name}'; known models: {string.Join(", ", Names)}", nameof(name)),
         };
         if (model is IThermalDecay && options.TemperatureK is { } t && t > 0)

@@ -37,6 +37,9 @@ public sealed record BarrierModelOptions
         init => field = Guard.Positive(value, nameof(FermiEnergyEv));
     } = 5.5;
 
+    /// <summary>The gate stack of the <c>mos</c> model (substrate, gate, doping); the defaults: p substrate, n⁺ poly gate.</summary>
+    public MosStackOptions Mos { get; init => field = value ?? throw new ArgumentNullException(nameof(Mos)); } = MosStackOptions.Default;
+
     /// <summary>True to add the classical image potential to the <c>wkb</c> barrier profile.</summary>
     public bool IncludeImageForce { get; init; }
 

@@ -159,6 +159,20 @@ public static class FitJsonFormatter
             }
             w.WriteEndArray();
         }
+        if (result.CapacitanceVoltage is { } cv)
+        {
+            // "cet_nm": {"value": CET} with what it was computed from, and t_ox − CET when a thickness was fitted.
+            w.WriteStartObject("cet_nm");
+            w.WriteNumber("value", cv.CapacitanceEquivalentThicknessNm);
+            w.WriteNumber("c_max_F", cv.MaxCapacitanceF);
+            w.WriteNumber("c_max_bias_V", cv.MaxCapacitanceBiasV);
+            w.WriteNumber("area_m2", cv.AreaM2);
+            w.WriteBoolean("saturated", cv.Saturated);
+            if (result.Find("thickness_nm") is { } tox) w.WriteNumber("cet_minus_thickness_nm", cv.CapacitanceEquivalentThicknessNm - tox.Value);
+            WriteNumberOrNull(w, "doping_cm3", cv.DopingM3 / 1e6);
+            WriteNumberOrNull(w, "flatband_voltage_V", cv.FlatBandVoltageV);
+            w.WriteEndObject();
+        }
         WriteStringOrNull(w, "lot", result.Lot);
         WriteStringOrNull(w, "wafer", result.Wafer);
         if (result.DieX is int x) w.WriteNumber("die_x", x); else w.WriteNull("die_x");

@@ -169,6 +169,12 @@ public sealed record FitResult
     /// <summary>Model-selection table when several models were compared (<c>--model auto</c>); empty otherwise.</summary>
     public ImmutableArray<ModelComparisonRow> ModelComparison { get; init; } = [];
 
+    /// <summary>
+    /// The capacitance–voltage summary of the gate stack when a C–V file was given (<c>--cv</c>): CET = ε_ox ε₀ A / C_max beside the
+    /// fitted physical oxide thickness; null otherwise.
+    /// </summary>
+    public Physics.CvSummary? CapacitanceVoltage { get; init; }
+
     /// <summary>Lot, if known.</summary>
     public string? Lot { get; init; }
 
