@@ -93,13 +93,14 @@ public sealed class FitPlan
     public FitResult Fit(IvCurve curve)
     {
         var models = ModelsFor(curve);
-        if (models.Count == 1 && models[0].Barrier is MosGateStackModel mos) curve = MosBranch.Select(curve, mos);
-        var fit = models.Count == 1 ? JunctionFitter.Fit(curve, models[0], Options) : ModelSelection.FitBest(curve, models, Options);
+        var options = Options;
+        if (models.Count == 1 && models[0].Barrier is MosGateStackModel mos) (curve, options) = MosBranch.Apply(curve, mos, options);
+        var fit = models.Count == 1 ? JunctionFitter.Fit(curve, models[0], options) : ModelSelection.FitBest(curve, models, options);
         if (Intervals == IntervalMethod.Wald || fit.Status == FitStatus.Failed) return fit;
         var model = models.FirstOrDefault(m => m.Barrier.Name == fit.Model) ?? models[0];
         return Intervals == IntervalMethod.Profile
-            ? ProfileLikelihoodIntervals.Compute(curve, model, Options, fit)
-            : BootstrapIntervals.Compute(curve, model, Options, fit, BootstrapReplicates, BootstrapSeed);
+            ? ProfileLikelihoodIntervals.Compute(curve, model, options, fit)
+            : BootstrapIntervals.Compute(curve, model, options, fit, BootstrapReplicates, BootstrapSeed);
     }
 
     /// <summary>A copy with other fit options (same models, temperature policy and interval method).</summary>

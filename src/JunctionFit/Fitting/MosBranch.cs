@@ -17,11 +17,15 @@ public static class MosBranch
     /// of a gate-current sweep are tunnelling from a strong inversion layer).</summary>
     public const double DecadesBelowMaximum = 3.0;
 
-    /// <summary>The curve with the points outside the default branch masked, and a warning; the curve itself when nothing is masked.</summary>
+    /// <summary>
+    /// The default branch as a bias window: from the smallest to the largest |V_g| of the inversion polarity at which the gate
+    /// current lies within <paramref name="decades"/> of its largest value (the gate current rises monotonically with |V_g| in
+    /// inversion, so the branch is one interval). Null when the curve has no current of the inversion polarity.
+    /// </summary>
     /// <param name="curve">The measured curve.</param>
     /// <param name="model">The MOS model (its substrate sets the polarity).</param>
-    /// <param name="decades">Decades of current below the largest that are kept (default <see cref="DecadesBelowMaximum"/>).</param>
-    public static IvCurve Select(IvCurve curve, MosGateStackModel model, double decades = DecadesBelowMaximum)
+    /// <param name="decades">Decades of current below the largest that are kept.</param>
+    public static (double LowV, double HighV)? Window(IvCurve curve, MosGateStackModel model, double decades = DecadesBelowMaximum)
     {
         ArgumentNullException.ThrowIfNull(curve);
         ArgumentNullException.ThrowIfNull(model);
@@ -32,21 +36,38 @@ public static class MosBranch
             double v = curve.VoltageV[i], c = curve.CurrentA[i];
             if (Math.Sign(v) == sign && Math.Sign(c) == sign && double.IsFinite(c)) max = Math.Max(max, Math.Abs(c));
         }
+        if (!(max > 0)) return null;
         double threshold = max * Math.Pow(10.0, -Common.Guard.Positive(decades));
-        var mask = ImmutableArray.CreateBuilder<bool>(n);
-        int outside = 0;
+        double nearest = double.PositiveInfinity;
         for (int i = 0; i < n; i++)
         {
-            bool flagged = curve.ImportMask.Length == n && curve.ImportMask[i];
             double v = curve.VoltageV[i], c = curve.CurrentA[i];
-            bool inBranch = Math.Sign(v) == sign && Math.Abs(c) >= threshold && max > 0;
-            if (!flagged && !inBranch && v != 0) outside++;
-            mask.Add(flagged || !inBranch);
+            if (Math.Sign(v) == sign && Math.Sign(c) == sign && Math.Abs(c) >= threshold) nearest = Math.Min(nearest, Math.Abs(v));
         }
-        if (outside == 0) return curve;
-        string polarity = sign > 0 ? "V_g > 0 (p substrate)" : "V_g < 0 (n substrate)";
-        string note = $"mos: fitted the inversion branch, {polarity}, where the gate current lies within {decades:0.#} decades of its largest value; " +
-                      $"{outside} point(s) outside it are left out (reported as flagged by the importer)";
-        return curve with { ImportMask = mask.MoveToImmutable(), Warnings = curve.Warnings.Add(note) };
+        return sign > 0 ? (nearest, double.PositiveInfinity) : (double.NegativeInfinity, -nearest);
+    }
+
+    /// <summary>
+    /// Applies the default branch when the options give no bias window: the options with the window of
+    /// <see cref="Window"/>, and the curve with a warning that says so. Otherwise both unchanged.
+    /// </summary>
+    /// <param name="curve">The measured curve.</param>
+    /// <param name="model">The MOS model.</param>
+    /// <param name="options">The fit options.</param>
+    /// <param name="decades">Decades of current below the largest that are kept.</param>
+    public static (IvCurve Curve, FitOptions Options) Apply(IvCurve curve, MosGateStackModel model, FitOptions options, double decades = DecadesBelowMaximum)
+    {
+        ArgumentNullException.ThrowIfNull(options);
+        if (options.BiasWindowLowV is not null || options.BiasWindowHighV is not null) return (curve, options);
+        if (Window(curve, model, decades) is not (double low, double high)) return (curve, options);
+        string range = model.InversionSign > 0 ? $"V_g ≥ {low:0.###} V (p substrate)" : $"V_g ≤ {high:0.###} V (n substrate)";
+        string note = $"mos: fitted the inversion branch, {range}, where the gate current lies within {decades:0.#} decades of its largest value " +
+                      "(below it overlap, trap-assisted and instrument currents dominate); choose another branch with --bias-window or --polarity";
+        var windowed = options with
+        {
+            BiasWindowLowV = double.IsFinite(low) ? low : null,
+            BiasWindowHighV = double.IsFinite(high) ? high : null,
+        };
+        return (curve with { Warnings = curve.Warnings.Add(note) }, windowed);
     }
 }

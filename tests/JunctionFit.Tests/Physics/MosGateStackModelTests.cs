@@ -195,7 +195,8 @@ public class MosGateStackModelTests(ITestOutputHelper output)
         var thickness = new List<double>();
         foreach (double decades in new[] { 2.5, 3.0, 3.5 })
         {
-            var fit = JunctionFitter.Fit(MosBranch.Select(curve, model, decades), junction, options);
+            var (branchCurve, branchOptions) = MosBranch.Apply(curve, model, options, decades);
+            var fit = JunctionFitter.Fit(branchCurve, junction, branchOptions);
             Assert.NotEqual(FitStatus.Failed, fit.Status);
             double t = fit.Find("thickness_nm")!.Value;
             double vfb = fit.Find("flatband_voltage_V")!.Value;
