@@ -171,6 +171,25 @@ public static class JunctionFitter
         best = best with { Iterations = iterations };
 
         var result = BuildResult(curve, model, options, best, fullProblem, freeIndex, used, usedCount, masked, maxAbsV, data, rawMaxV, rawMaxI);
+        if (result.Diagnoses.Contains("undetermined") && isFree[model.AreaIndex] && curve.AreaM2 is double statedArea && statedArea > 0)
+        {
+            // With the area free these data do not determine the barrier; the file states an area, so the fit falls back to it
+            // (as --area-from-file would) and says so, rather than giving no value.
+            var fallback = Fit(curve, model, options with { FixedValues = options.FixedValues.SetItem(model.Parameters[model.AreaIndex].Key, statedArea) });
+            if (fallback.Status != FitStatus.Failed && !fallback.Diagnoses.Contains("undetermined"))
+            {
+                string bounds = string.Join(", ", result.Parameters.Where(q => q.IsUndetermined && q.Bound is not null)
+                    .Select(q => $"{q.Symbol} {(q.Bound!.IsLower ? "≥" : "≤")} {q.Bound.Value:G3} {q.Unit}".TrimEnd()));
+                return fallback with
+                {
+                    Warnings = fallback.Warnings.Insert(0,
+                        $"area fixed at the file's stated area of {statedArea * 1e12:G4} µm²: with the area free these data do not determine the barrier " +
+                        $"({(bounds.Length > 0 ? bounds : "it ran to the edge of the physical range")}); the stated area may be the nominal contact area, larger than " +
+                        "the effective one — give --area for another value"),
+                    Diagnoses = fallback.Diagnoses.Add("area-from-file"),
+                };
+            }
+        }
         if (options.DirectionFits && result.Status != FitStatus.Failed)
         {
             result = DirectionFits.Attach(curve, model, options, data, result);

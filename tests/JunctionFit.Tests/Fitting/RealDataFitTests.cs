@@ -60,6 +60,26 @@ public class RealDataFitTests(ITestOutputHelper output)
 
     [Theory]
     [MemberData(nameof(AgNames))]
+    public void MolecularTrace_DefaultOptions_FallsBackToTheStatedAreaAndGivesIntervals(string name)
+    {
+        // With the area free these traces do not determine φ (it runs to the edge of the range); the file states an area (I/J),
+        // so the fit falls back to it, says so, and reads the same as explicit --voltage-column 1 --current-column 4.
+        var curve = IvFileReader.ReadFile(Ag(name), IvReadOptions.Default);
+        var explicitColumns = IvFileReader.ReadFile(Ag(name), new IvReadOptions { VoltageColumn = "1", CurrentColumn = "4" });
+        Assert.Equal(explicitColumns.VoltageV.ToArray(), curve.VoltageV.ToArray());
+        Assert.Equal(explicitColumns.CurrentA.ToArray(), curve.CurrentA.ToArray());
+        var r = JunctionFitter.Fit(curve, Simmons, FitOptions.Default);
+        Assert.Contains("area-from-file", r.Diagnoses);
+        Assert.Contains(r.Warnings, w => w.StartsWith("area fixed at the file's stated area", StringComparison.Ordinal));
+        foreach (string key in new[] { "barrier_height_eV", "thickness_nm" })
+        {
+            var p = r.Find(key)!;
+            Assert.True(double.IsFinite(p.Value) && p.Lower95 is double lo && p.Upper95 is double hi && lo <= p.Value && p.Value <= hi, key);
+        }
+    }
+
+    [Theory]
+    [MemberData(nameof(AgNames))]
     public void MolecularTrace_Status_FollowsTheDocumentedRule(string name)
     {
         // docs/fitting.md "Status": ok exactly when the systematic misfit is within the tolerance and no parameter is
