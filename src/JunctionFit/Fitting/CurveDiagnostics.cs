@@ -24,58 +24,56 @@ internal static class CurveDiagnostics
     /// <summary>Largest RMS deviation of ln|I/V| for a curve to count as a straight line, beside the noise (common practice, no source).</summary>
     public const double OhmicLogTolerance = 0.02;
 
+    /// <summary>Points searched on either side of a candidate for its repeat at the same bias (keeps the search O(n)).</summary>
+    private const int RepeatSearchSpan = 4096;
+
     /// <summary>
-    /// Indices of settling artefacts: at the start of each trace (the first point and every return to the start bias that is
-    /// followed by a departure in the first direction), the first point off the start bias is compared with its repeat at
-    /// the same bias later in the trace; it is an artefact when |ln(I/I_repeat)| exceeds 20 % and
-    /// <see cref="SettlingContrast"/> times the largest such discrepancy of the next three points.
+    /// Indices of settling artefacts. Candidates are the first point of the sweep and every point that follows a zero-bias
+    /// reading (where an instrument drops to its most sensitive range and must settle again on the next step). A candidate
+    /// is compared with its nearest repeat at the same bias elsewhere in the sweep; it is an artefact when |ln(I/I_repeat)|
+    /// exceeds 20 % and <see cref="SettlingContrast"/> times the largest such discrepancy of the next three points.
     /// </summary>
     public static int[] SettlingPoints(ReadOnlySpan<double> v, ReadOnlySpan<double> c, double step)
     {
         int n = v.Length;
         if (n < 8 || !(step > 0)) return [];
         double tol = 1e-3 * step;
-        double v0 = v[0];
-        if (!double.IsFinite(v0)) return [];
+        List<int>? result = null;
         int firstOff = -1;
-        for (int i = 1; i < n; i++) if (double.IsFinite(v[i]) && Math.Abs(v[i] - v0) > tol) { firstOff = i; break; }
-        if (firstOff < 0) return [];
-        int direction = Math.Sign(v[firstOff] - v0);
-        var starts = new List<int> { firstOff };
-        for (int i = firstOff + 1; i < n - 1; i++)
+        for (int i = 0; i < n; i++) if (double.IsFinite(v[i]) && Math.Abs(v[i]) > tol) { firstOff = i; break; }
+        for (int j = Math.Max(firstOff, 0); j < n; j++)
         {
-            if (Math.Abs(v[i] - v0) <= tol && Math.Abs(v[i + 1] - v0) > tol && Math.Sign(v[i + 1] - v0) == direction)
-            {
-                starts.Add(i + 1);
-            }
-        }
-        var result = new List<int>();
-        for (int s = 0; s < starts.Count; s++)
-        {
-            int begin = starts[s], end = s + 1 < starts.Count ? starts[s + 1] : n;
-            double first = RepeatDiscrepancy(v, c, begin, begin + 1, end, tol);
+            if (!double.IsFinite(v[j]) || Math.Abs(v[j]) <= tol) continue;
+            bool candidate = j == firstOff || (j > 0 && double.IsFinite(v[j - 1]) && Math.Abs(v[j - 1]) <= tol);
+            if (!candidate) continue;
+            double first = RepeatDiscrepancy(v, c, j, tol);
             if (!double.IsFinite(first) || first < SettlingMinimumLogRatio) continue;
             double reference = 0;
             int compared = 0;
-            for (int j = begin + 1; j < Math.Min(begin + 4, end); j++)
+            for (int k = j + 1; k < Math.Min(j + 4, n); k++)
             {
-                double d = RepeatDiscrepancy(v, c, j, j + 1, end, tol);
+                if (!double.IsFinite(v[k]) || Math.Abs(v[k]) <= tol) break;
+                double d = RepeatDiscrepancy(v, c, k, tol);
                 if (double.IsFinite(d)) { reference = Math.Max(reference, d); compared++; }
             }
-            if (compared > 0 && first > SettlingContrast * reference) result.Add(begin);
+            if (compared > 0 && first > SettlingContrast * reference) (result ??= []).Add(j);
         }
-        return result.ToArray();
+        return result is null ? [] : result.ToArray();
     }
 
-    /// <summary>|ln|I_i| − ln|I_k||, k the first later point in [from, end) at the same bias with a same-sign current; NaN if none.</summary>
-    private static double RepeatDiscrepancy(ReadOnlySpan<double> v, ReadOnlySpan<double> c, int i, int from, int end, double tol)
+    /// <summary>|ln|I_i| − ln|I_k||, k the nearest other point in time at the same bias with a same-sign current; NaN if none.</summary>
+    private static double RepeatDiscrepancy(ReadOnlySpan<double> v, ReadOnlySpan<double> c, int i, double tol)
     {
         if (c[i] == 0 || !double.IsFinite(c[i])) return double.NaN;
-        for (int k = from; k < end; k++)
+        for (int offset = 1; offset <= RepeatSearchSpan; offset++)
         {
-            if (Math.Abs(v[k] - v[i]) <= tol && c[k] != 0 && Math.Sign(c[k]) == Math.Sign(c[i]) && double.IsFinite(c[k]))
+            foreach (int k in (ReadOnlySpan<int>)[i + offset, i - offset])
             {
-                return Math.Abs(Math.Log(Math.Abs(c[i] / c[k])));
+                if (k < 0 || k >= v.Length) continue;
+                if (Math.Abs(v[k] - v[i]) <= tol && c[k] != 0 && Math.Sign(c[k]) == Math.Sign(c[i]) && double.IsFinite(c[k]))
+                {
+                    return Math.Abs(Math.Log(Math.Abs(c[i] / c[k])));
+                }
             }
         }
         return double.NaN;
