@@ -26,8 +26,11 @@ namespace JunctionFit.Physics;
 /// accumulation layer on an n substrate, and from an n⁺ poly or metal gate over an accumulated p substrate; holes through the
 /// valence-band barrier from an inversion layer on an n substrate and from a p⁺ poly gate over an accumulated p substrate.
 /// The parameters <c>barrier_height_eV</c> and <c>mass_ratio</c> belong to the carriers of the inversion branch (electrons on p,
-/// holes on n); the other carrier uses the defaults below. Defaults for SiO₂ (Lee and Hu 2001, their table of fitted values, from
-/// memory): electrons φ_b = 3.1 eV, m_ox = 0.40 mₑ, α = 0.6; holes φ_b = 4.5 eV, m_ox = 0.32 mₑ, α = 0.4.
+/// holes on n); the other carrier uses the defaults below. Defaults for SiO₂ (Lee and Hu 2001, their table of fitted values):
+/// electrons φ_b = 3.1 eV, m_ox = 0.40 mₑ, α = 0.6; holes φ_b = 4.5 eV, m_ox = 0.32 mₑ, α = 0.4. φ_b and m_ox are the values
+/// behind BSIM4's gate-tunnelling constants A = q²/(8πhφ_b) and B = 8π√(2q m_ox)φ_b^{3/2}/(3h) (ngspice/ngspice,
+/// src/spicelib/devices/bsim4/b4temp.c: A = 4.97232e-7 A/V², B = 7.45669e11 (g/F s²)^½ for NMOS, 3.42537e-7 and 1.16645e12 for
+/// PMOS), which the tests reproduce to 1e-5; α and φ_b0 = φ_b are from memory.
 /// </para>
 /// <para>
 /// Sign convention: V_g is the gate against the substrate (body); J &gt; 0 flows from the gate through the oxide into the
@@ -51,19 +54,19 @@ public sealed class MosGateStackModel : IBarrierModel
     /// <summary>Index of m_ox/mₑ of the inversion carriers.</summary>
     public const int MassRatioIndex = 3;
 
-    /// <summary>Electron barrier Si/SiO₂ conduction band, eV (Lee and Hu 2001; from memory).</summary>
+    /// <summary>Electron barrier Si/SiO₂ conduction band, eV (Lee and Hu 2001; behind BSIM4's NMOS constant A = q²/(8πhφ_b), ngspice b4temp.c).</summary>
     public const double ElectronBarrierEv = 3.1;
 
-    /// <summary>Electron tunnelling mass in SiO₂, mₑ (Lee and Hu 2001; from memory).</summary>
+    /// <summary>Electron tunnelling mass in SiO₂, mₑ (Lee and Hu 2001; behind BSIM4's NMOS constant B, ngspice b4temp.c).</summary>
     public const double ElectronMassRatio = 0.40;
 
     /// <summary>Exponent α of the correction for electrons (Lee and Hu 2001; from memory).</summary>
     public const double ElectronAlpha = 0.6;
 
-    /// <summary>Hole barrier Si/SiO₂ valence band, eV (Lee and Hu 2001; from memory).</summary>
+    /// <summary>Hole barrier Si/SiO₂ valence band, eV (Lee and Hu 2001; behind BSIM4's PMOS constant A, ngspice b4temp.c).</summary>
     public const double HoleBarrierEv = 4.5;
 
-    /// <summary>Hole tunnelling mass in SiO₂, mₑ (Lee and Hu 2001; from memory).</summary>
+    /// <summary>Hole tunnelling mass in SiO₂, mₑ (Lee and Hu 2001; behind BSIM4's PMOS constant B, ngspice b4temp.c).</summary>
     public const double HoleMassRatio = 0.32;
 
     /// <summary>Exponent α of the correction for holes (Lee and Hu 2001; from memory).</summary>
