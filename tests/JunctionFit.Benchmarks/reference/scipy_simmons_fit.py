@@ -9,7 +9,8 @@ For each I-V file (CSV "Voltage (V),Current (A)", '#' lines skipped) in the fold
     for e|V| < phi, J = e/(2 pi h d^2) [(phi - eV/2) exp(-A0 sqrt(phi - eV/2)) - (phi + eV/2) exp(-A0 sqrt(phi + eV/2))],
     A0 = 2 d sqrt(2 m_e)/hbar; for e|V| >= phi the triangular-barrier form with ds = d phi/(e|V|), mean phi/2 (beta = 1);
   * solver: scipy.optimize.least_squares(method='lm') (MINPACK lmder) on x = (ln phi, ln d) with the analytic Jacobian,
-    from a 3 x 3 start grid phi in {1, 2, 4} eV x d in {0.8, 1.5, 3} nm; the lowest sum of squares wins;
+    from a 3 x 3 start grid phi in {1, 2, 4} eV x d in {0.8, 1.5, 3} nm; the lowest sum of squares wins; ftol = xtol = 1e-9
+    (the CLI's own stopping tolerances), gtol at scipy's default;
   * standard errors: s^2 (J^T J)^-1 in x at the optimum, s^2 = RSS/(m - 2), mapped back by the delta method
     (SE(phi) = phi SE(ln phi)).
 Constants: CODATA 2018 (e, h exact; m_e = 9.1093837015e-31 kg).
@@ -94,7 +95,7 @@ def fit(v, i, area):
         for d0 in (0.8, 1.5, 3.0):
             with np.errstate(all="ignore"):
                 try:
-                    r = least_squares(res, [math.log(phi0), math.log(d0)], jac=jac, method="lm", xtol=1e-12, ftol=1e-12, gtol=1e-12)
+                    r = least_squares(res, [math.log(phi0), math.log(d0)], jac=jac, method="lm", xtol=1e-9, ftol=1e-9)
                 except ValueError:
                     continue
             nfev += r.nfev
