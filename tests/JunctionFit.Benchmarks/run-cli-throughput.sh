@@ -6,7 +6,7 @@
 #    100 um2, 1 % noise, -1.2 V ... +1.2 V, seeds 1..N) into a work folder (kept and reused between runs).
 # 3. Times the whole fit command with hyperfine (or /usr/bin/time when hyperfine is missing), plus the same command on
 #    a folder with one file (the fixed cost: process start, JIT, first file), and prints ms per curve against the
-#    target of 0.8 ms per curve (20x faster than the 16 ms per curve of scipy's MINPACK with a 3x3 start grid).
+#    target of 0.8 ms per curve. Ratios against scipy come from run-vs-scipy.sh (both measured in one run).
 #
 # Usage: tests/JunctionFit.Benchmarks/run-cli-throughput.sh [N] [WORKDIR]
 #   N        number of files (default 1000)
@@ -70,5 +70,5 @@ marginal = (mean_n - mean_1) / (n - 1) if n > 1 else float("nan")
 print(f"== whole command, {n} files: {mean_n:.0f} ms +- {sd_n:.0f} ms  ->  {per:.3f} ms per curve (process start included)")
 print(f"   one file (process start, JIT, one fit): {mean_1:.0f} ms;  marginal cost per further curve: {marginal:.3f} ms")
 print(f"   target {target} ms per curve: {'met' if per <= target else 'NOT met'} ({target / per:.2f}x the target speed); "
-      f"{16.0 / per:.1f}x faster than scipy MINPACK 3x3 grid (16 ms per curve), {11.0 / per:.1f}x faster than MathNet single start (11 ms)")
+      f"(for a ratio against scipy measured in the same run, use run-vs-scipy.sh; fixed figures from another machine give none)")
 PY

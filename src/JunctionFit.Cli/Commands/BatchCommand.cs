@@ -142,7 +142,7 @@ internal static class BatchCommand
                 {
                     return new CurveOutcome(files[k], previous.Result with { SourcePath = files[k] }, null) { FromStore = true };
                 }
-                var fitted = CurvePipeline.Process(files[k], s.ReadOptions, s.Plan);
+                var fitted = CurvePipeline.Process(files[k], s.ReadOptions, s.Plan, context.Error);
                 // Render on the worker thread; the ordered consumer only writes the bytes.
                 return s.Plots && fitted.Result.Curve is not null ? fitted with { PlotPng = FitPlotRenderer.RenderPng(fitted.Result) } : fitted;
             }

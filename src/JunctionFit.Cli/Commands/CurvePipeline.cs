@@ -26,8 +26,8 @@ internal static class CurvePipeline
     private const int ChunkSize = 64;
 
     public static void Run(IReadOnlyList<string> files, IvReadOptions readOptions, FitPlan plan, int jobs, Action<int, CurveOutcome> consume,
-        CancellationToken cancel = default)
-        => Run(files.Count, k => Process(files[k], readOptions, plan), jobs, consume, cancel);
+        TextWriter? progress = null, CancellationToken cancel = default)
+        => Run(files.Count, k => Process(files[k], readOptions, plan, progress), jobs, consume, cancel);
 
     /// <summary>Runs <paramref name="process"/> for indices 0 … count − 1 in parallel chunks, consuming in order.</summary>
     public static void Run(int fileCount, Func<int, CurveOutcome> process, int jobs, Action<int, CurveOutcome> consume, CancellationToken cancel = default)
@@ -46,8 +46,10 @@ internal static class CurvePipeline
         }
     }
 
-    public static CurveOutcome Process(string path, IvReadOptions readOptions, FitPlan plan)
+    /// <summary>Reads and fits one file; with <paramref name="progress"/>, a large file that takes over a second says so there.</summary>
+    public static CurveOutcome Process(string path, IvReadOptions readOptions, FitPlan plan, TextWriter? progress = null)
     {
+        using var watch = FileProgress.Start(progress, path, "reading");
         IvCurve curve;
         try
         {
@@ -61,6 +63,7 @@ internal static class CurvePipeline
         {
             return new CurveOutcome(path, FitResult.Failed(path, plan.DisplayName, e.Message), $"{path}:0: cannot read: {e.Message}");
         }
+        watch?.Stage($"fitting {curve.Count} points ({plan.DisplayName})");
         return new CurveOutcome(path, plan.Fit(curve), null);
     }
 }

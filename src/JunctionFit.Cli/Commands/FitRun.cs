@@ -78,7 +78,7 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
                 summaries.Add(result with { Curve = null });
                 plotFiles.Add(plot);
             }
-        });
+        }, context.Error);
         FailedCount = failed;
 
         if (!json)

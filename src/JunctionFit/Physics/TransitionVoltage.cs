@@ -59,15 +59,9 @@ public static class TransitionVoltage
         for (int k = 0; k < n; k++) y[k] = ys[order[k]];
 
         int half = Math.Max(2, n / 16);
-        var smooth = new double[n];
+        var smooth = Smooth(x, y, half);
         double scatter = 0;
-        for (int k = 0; k < n; k++)
-        {
-            int lo = Math.Max(0, k - half), hi = Math.Min(n - 1, k + half);
-            if (hi - lo < 4) { if (lo == 0) hi = Math.Min(n - 1, 4); else lo = Math.Max(0, hi - 4); }
-            smooth[k] = QuadraticFit(x, y, lo, hi, x[k], out _, out _);
-            scatter += (y[k] - smooth[k]) * (y[k] - smooth[k]);
-        }
+        for (int k = 0; k < n; k++) scatter += (y[k] - smooth[k]) * (y[k] - smooth[k]);
         scatter = Math.Sqrt(scatter / n);
         int kMin = 0;
         for (int k = 1; k < n; k++) if (smooth[k] < smooth[kMin]) kMin = k;
@@ -87,12 +81,105 @@ public static class TransitionVoltage
             double vertex = x[centre] - c1 / (2.0 * c2);
             if (vertex < x[a] || vertex > x[b]) break;
             vt = vertex;
-            int next = centre;
-            for (int k = 0; k < n; k++) if (Math.Abs(x[k] - vertex) < Math.Abs(x[next] - vertex)) next = k;
+            int next = Nearest(x, vertex, centre);
             if (next == centre) break;
             centre = next;
         }
         return positiveBias ? vt : -vt;
+    }
+
+    /// <summary>
+    /// The local quadratic smooth of y at every x (sorted ascending): the value at xₖ of the least-squares quadratic over the
+    /// points k − half … k + half (clipped to the data, at least 5 points). O(n) through <see cref="MovingQuadraticFit"/>.
+    /// </summary>
+    internal static double[] Smooth(double[] x, double[] y, int half)
+    {
+        int n = x.Length;
+        var smooth = new double[n];
+        var window = new MovingQuadraticFit(x, y);
+        for (int k = 0; k < n; k++)
+        {
+            int lo = Math.Max(0, k - half), hi = Math.Min(n - 1, k + half);
+            if (hi - lo < 4) { if (lo == 0) hi = Math.Min(n - 1, 4); else lo = Math.Max(0, hi - 4); }
+            smooth[k] = window.ValueAt(lo, hi, x[k], rebaseEvery: half);
+        }
+        return smooth;
+    }
+
+    /// <summary>Index of the point of the sorted <paramref name="x"/> nearest to <paramref name="value"/> (<paramref name="fallback"/> when it is as near).</summary>
+    private static int Nearest(double[] x, double value, int fallback)
+    {
+        int at = Array.BinarySearch(x, value);
+        if (at >= 0) return x[fallback] == value ? fallback : at;
+        at = ~at;
+        int best = fallback;
+        foreach (int k in (ReadOnlySpan<int>)[at - 1, at])
+        {
+            if (k >= 0 && k < x.Length && Math.Abs(x[k] - value) < Math.Abs(x[best] - value)) best = k;
+        }
+        return best;
+    }
+
+    /// <summary>Solves the 3×3 normal equations of a quadratic in u from the moments s0…s4 (of u) and t0…t2 (of y·uᵖ).</summary>
+    private static double SolveQuadratic(double s0, double s1, double s2, double s3, double s4, double t0, double t1, double t2, double scale,
+        out double c1, out double c2)
+    {
+        double det = s0 * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
+        if (Math.Abs(det) < 1e-300) { c1 = 0; c2 = 0; return t0 / s0; }
+        double a0 = (t0 * (s2 * s4 - s3 * s3) - s1 * (t1 * s4 - s3 * t2) + s2 * (t1 * s3 - s2 * t2)) / det;
+        double a1 = (s0 * (t1 * s4 - t2 * s3) - t0 * (s1 * s4 - s3 * s2) + s2 * (s1 * t2 - t1 * s2)) / det;
+        double a2 = (s0 * (s2 * t2 - s3 * t1) - s1 * (s1 * t2 - s3 * t0) + t0 * (s1 * s3 - s2 * s2)) / det;
+        c1 = a1 / scale;
+        c2 = a2 / (scale * scale);
+        return a0;
+    }
+
+    /// <summary>
+    /// The local quadratic smoother in O(1) per point: running sums Σ(x − o)ᵖ (p ≤ 4) and Σ y (x − o)ᵖ (p ≤ 2) over a window
+    /// that slides forward, shifted to each centre x₀ binomially. The origin o is moved to the current centre (sums recomputed
+    /// over the window) every <c>rebaseEvery</c> points, so |x₀ − o| stays within about a window width and the binomial
+    /// shift loses at most a digit or two; the direct sums of <see cref="QuadraticFit"/> made the whole smoothing O(n²/8).
+    /// </summary>
+    private sealed class MovingQuadraticFit(double[] x, double[] y)
+    {
+        private int _lo = 0, _hi = -1, _sinceRebase = int.MaxValue;
+        private double _origin;
+        private double _a0, _a1, _a2, _a3, _a4, _b0, _b1, _b2;
+
+        public double ValueAt(int lo, int hi, double x0, int rebaseEvery)
+        {
+            if (lo < _lo || hi < _hi || lo > _hi + 1 || ++_sinceRebase >= rebaseEvery) Rebase(lo, hi, x0);
+            while (_hi < hi) Add(++_hi, 1.0);
+            while (_lo < lo) Add(_lo++, -1.0);
+            double scale = Math.Max(x[hi] - x[lo], 1e-300);
+            double dl = _origin - x0; // x − x₀ = (x − o) + (o − x₀)
+            double d2 = dl * dl, d3 = d2 * dl, d4 = d2 * d2;
+            double m1 = _a1 + dl * _a0;
+            double m2 = _a2 + 2 * dl * _a1 + d2 * _a0;
+            double m3 = _a3 + 3 * dl * _a2 + 3 * d2 * _a1 + d3 * _a0;
+            double m4 = _a4 + 4 * dl * _a3 + 6 * d2 * _a2 + 4 * d3 * _a1 + d4 * _a0;
+            double n1 = _b1 + dl * _b0;
+            double n2 = _b2 + 2 * dl * _b1 + d2 * _b0;
+            double i1 = 1.0 / scale, i2 = i1 * i1;
+            return SolveQuadratic(_a0, m1 * i1, m2 * i2, m3 * i2 * i1, m4 * i2 * i2, _b0, n1 * i1, n2 * i2, scale, out _, out _);
+        }
+
+        private void Rebase(int lo, int hi, double x0)
+        {
+            _origin = x0;
+            _a0 = _a1 = _a2 = _a3 = _a4 = _b0 = _b1 = _b2 = 0;
+            _lo = lo;
+            _hi = hi;
+            for (int k = lo; k <= hi; k++) Add(k, 1.0);
+            _sinceRebase = 0;
+        }
+
+        private void Add(int k, double sign)
+        {
+            double d = x[k] - _origin, d2 = d * d, yk = sign * y[k];
+            _a0 += sign; _a1 += sign * d; _a2 += sign * d2; _a3 += sign * d2 * d; _a4 += sign * d2 * d2;
+            _b0 += yk; _b1 += yk * d; _b2 += yk * d2;
+        }
     }
 
     /// <summary>
@@ -109,13 +196,6 @@ public static class TransitionVoltage
             s0 += 1; s1 += u; s2 += u2; s3 += u2 * u; s4 += u2 * u2;
             t0 += y[k]; t1 += y[k] * u; t2 += y[k] * u2;
         }
-        double det = s0 * (s2 * s4 - s3 * s3) - s1 * (s1 * s4 - s3 * s2) + s2 * (s1 * s3 - s2 * s2);
-        if (Math.Abs(det) < 1e-300) { c1 = 0; c2 = 0; return t0 / s0; }
-        double a0 = (t0 * (s2 * s4 - s3 * s3) - s1 * (t1 * s4 - s3 * t2) + s2 * (t1 * s3 - s2 * t2)) / det;
-        double a1 = (s0 * (t1 * s4 - t2 * s3) - t0 * (s1 * s4 - s3 * s2) + s2 * (s1 * t2 - t1 * s2)) / det;
-        double a2 = (s0 * (s2 * t2 - s3 * t1) - s1 * (s1 * t2 - s3 * t0) + t0 * (s1 * s3 - s2 * s2)) / det;
-        c1 = a1 / scale;
-        c2 = a2 / (scale * scale);
-        return a0;
+        return SolveQuadratic(s0, s1, s2, s3, s4, t0, t1, t2, scale, out c1, out c2);
     }
 }
