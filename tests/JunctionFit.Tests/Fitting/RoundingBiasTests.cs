@@ -44,8 +44,10 @@ public class RoundingBiasTests
         {
             var a = reference.Find(key)!;
             var b = result.Find(key)!;
-            Assert.Equal(a.Value, b.Value, 1e-9 * a.Value);
-            Assert.Equal(a.StandardError!.Value, b.StandardError!.Value, 1e-6 * a.StandardError.Value);
+            // The floor reading also sets σ_floor (its own current), which re-weights the few points near 1e-13 A a little:
+            // the optimum moves by far less than its standard error.
+            Assert.Equal(a.Value, b.Value, 0.01 * a.StandardError!.Value);
+            Assert.Equal(a.StandardError!.Value, b.StandardError!.Value, 0.01 * a.StandardError.Value);
         }
     }
 
