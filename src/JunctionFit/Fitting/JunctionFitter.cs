@@ -120,6 +120,7 @@ public static class JunctionFitter
         int[] iterIndex = profileArea ? Array.FindAll(freeIndex, k => k != model.AreaIndex) : freeIndex;
         var problem = new LogCurrentProblem(model, vUsed, yUsed, invSigma, iterIndex, theta, profileArea);
         var starts = GridStarts(model, theta, isFree, vUsed, yUsed, invSigma, options.Starts);
+        bool noiseWeighted = options.RelativeNoise is not null || data.EstimatedRelativeNoise is not null;
         LeastSquaresSolution? best = null;
         int iterations = 0;
         foreach (var start in starts)
@@ -136,6 +137,14 @@ public static class JunctionFitter
             iterations += solution.Iterations;
             if (!double.IsFinite(solution.ResidualSumOfSquares)) continue;
             if (best is null || solution.ResidualSumOfSquares < best.ResidualSumOfSquares) best = solution;
+            // A converged start that already fits at the noise level (RSS/dof within 3 standard deviations of a χ²/dof for a
+            // correct model, 1 + 3√(2/dof)) leaves nothing for the other starts to find: they are skipped.
+            int dofStart = usedCount - iterIndex.Length;
+            if (noiseWeighted && dofStart > 10 && best.Converged && iterIndex.Length <= 2
+                && best.ResidualSumOfSquares / dofStart <= 1.0 + 3.0 * Math.Sqrt(2.0 / dofStart))
+            {
+                break;
+            }
         }
         if (best is null)
         {
