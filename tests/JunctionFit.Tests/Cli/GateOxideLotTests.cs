@@ -1,6 +1,5 @@
 using System.Globalization;
 using System.Text.Json;
-using JunctionFit.Tests.Storage;
 using Xunit;
 
 namespace JunctionFit.Tests.Cli;

@@ -1,5 +1,4 @@
 using JunctionFit.Import;
-using JunctionFit.Tests.Storage;
 using Xunit;
 
 namespace JunctionFit.Tests.Import;
@@ -15,8 +14,8 @@ public class CvPlacementTests
 
         Assert.Equal("KM-G01", c.Lot);
         Assert.Equal("W02", c.Wafer);
-        Assert.Equal(1e-8, c.AreaM2!.Value, 20);
-        Assert.Equal(100e-12, c.CapacitanceF.Max(), 20);
+        Assert.Equal(1.0, c.AreaM2!.Value / 1e-8, 12);
+        Assert.Equal(1.0, c.CapacitanceF.Max() / 100e-12, 12);
     }
 
     [Fact]
@@ -39,7 +38,7 @@ public class CvPlacementTests
     public void Read_PathNotMatchingThePattern_KeepsTheLinesWithANote()
     {
         using var dir = new TempFolder();
-        string file = dir.File("cap.txt");
+        string file = Path.Combine(dir.Path, "cap.txt");
         File.WriteAllText(file, "# lot: KM-G01\n# wafer: W01\n" + Table);
 
         var c = CvFileReader.Read(file, "{lot}/{wafer}/*.csv");
