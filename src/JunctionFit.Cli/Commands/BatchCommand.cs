@@ -24,7 +24,7 @@ internal static class BatchCommand
     public const int ReportSummaryLimit = 2000;
 
     /// <summary>Parameters drawn as wafer maps.</summary>
-    public static readonly string[] MapKeys = ["barrier_height_eV", "thickness_nm", "area_m2"];
+    public static readonly string[] MapKeys = ["barrier_height_eV", "thickness_nm", "area_m2", "flatband_voltage_V"];
 
     public static Command Create(CliContext context)
     {
@@ -334,7 +334,10 @@ internal static class BatchCommand
     internal static HtmlReportSection LotSummarySection(IReadOnlyList<LotSummaryRow> lots)
     {
         var header = new List<string> { "Lot", "Dies", "Ok", "Poor fit", "Failed", "Yield" };
-        string[] keys = ["barrier_height_eV", "thickness_nm", "area_m2", "transition_voltage_V"];
+        // flatband_voltage_V (the mos model) only when some lot has it, so junction reports keep their columns.
+        string[] keys = lots.Any(l => l.Find("flatband_voltage_V") is { GoodCount: > 0 })
+            ? ["barrier_height_eV", "thickness_nm", "area_m2", "flatband_voltage_V", "transition_voltage_V"]
+            : ["barrier_height_eV", "thickness_nm", "area_m2", "transition_voltage_V"];
         foreach (string k in keys) { header.Add(k + " median"); header.Add(k + " robust spread"); }
         var table = new List<IReadOnlyList<string>>();
         foreach (var lot in lots)

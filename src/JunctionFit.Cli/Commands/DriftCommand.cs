@@ -125,6 +125,16 @@ internal static class ThicknessCommand
         var outDir = new Option<string?>("--out") { Description = "folder for the Bland–Altman plot (default: beside the results file)" };
         var jobs = new Option<int?>("--jobs") { Description = "parallel refits (default: the number of cores)" };
         var tolerance = new Option<double>("--tolerance") { Description = "practical tolerance in nm on |electrical - ellipsometric| for flagging a wafer", DefaultValueFactory = _ => LotAnalyses.DefaultThicknessToleranceNm };
+        var cv = new Option<string[]>("--cv")
+        {
+            Description = "C-V files (or folders of them) of the wafers' capacitor test structures: adds CET = eps_ox*A/C_max per wafer beside t_ox and ellipsometry; " +
+                          "each file is placed by its '# lot:' / '# wafer:' lines or --path-pattern; repeatable",
+        };
+        var cvArea = new Option<string?>("--cv-area") { Description = "with --cv: area of the C-V capacitors (bare number: µm²; suffixes um2, m2, cm2, nm2); default: each file's 'area' metadata" };
+        var cetRange = new Option<string?>("--cet-range")
+        {
+            Description = $"with --cv: plausible CET - t_ox in nm, LO:HI; a wafer outside it is flagged (default {CetCrossCheck.DefaultLowerNm.ToString(CultureInfo.InvariantCulture)}:{CetCrossCheck.DefaultUpperNm.ToString(CultureInfo.InvariantCulture)})",
+        };
         var fitOptions = new FitOptionSet();
         var read = new ReadOptionSet();
         var command = new Command("thickness", "Electrical minus ellipsometric thickness: bias, limits of agreement, per-wafer refit with d fixed (F-test). Give the batch's fit options.");
@@ -134,6 +144,9 @@ internal static class ThicknessCommand
         command.Options.Add(outDir);
         command.Options.Add(jobs);
         command.Options.Add(tolerance);
+        command.Options.Add(cv);
+        command.Options.Add(cvArea);
+        command.Options.Add(cetRange);
         fitOptions.AddTo(command);
         read.AddTo(command);
         command.SetAction(parse =>
@@ -166,9 +179,31 @@ internal static class ThicknessCommand
                 return ExitCodes.UsageOrInput;
             }
             var (plan, _) = fitOptions.Build(parse);
+            var readOptions = read.Build(parse);
+            var cvPaths = parse.GetValue(cv) ?? [];
+            if (cvPaths.Length == 0 && (parse.GetValue(cvArea) is not null || parse.GetValue(cetRange) is not null))
+            {
+                throw new UsageException("--cv-area and --cet-range need --cv FILE");
+            }
+            var (cetLow, cetHigh) = ParseCetRange(parse.GetValue(cetRange));
+            List<CetMeasurement>? cetMeasurements = null;
+            if (cvPaths.Length > 0)
+            {
+                double? area = parse.GetValue(cvArea) is string areaText ? QuantityParser.ParseAreaM2(areaText) : null;
+                cetMeasurements = LotAnalyses.ReadCet(context, cvPaths, readOptions.PathPattern, area, plan.ModelOptions.Mos.OxidePermittivity);
+                if (cetMeasurements is null) return ExitCodes.UsageOrInput;
+            }
             LotAnalyses.RefitFailures = 0;
             string dir = parse.GetValue(outDir) ?? Path.GetDirectoryName(Path.GetFullPath(resultsPath))!;
-            var (comparison, wafers, _, plot) = LotAnalyses.Thickness(rows.Value, ell, plan, read.Build(parse), dir, parse.GetValue(jobs) ?? Environment.ProcessorCount, parse.GetValue(tolerance));
+            var (comparison, wafers, _, plot) = LotAnalyses.Thickness(rows.Value, ell, plan, readOptions, dir, parse.GetValue(jobs) ?? Environment.ProcessorCount, parse.GetValue(tolerance));
+            CetCrossCheckResult? cetCheck = null;
+            string? cetCsv = null;
+            if (cetMeasurements is not null)
+            {
+                (cetCheck, _) = LotAnalyses.CetCheck(rows.Value, ell, cetMeasurements, wafers, cetLow, cetHigh, plan.ModelOptions.Mos.OxidePermittivity);
+                cetCsv = Path.Combine(dir, WaferThicknessCsv.FileName);
+                WaferThicknessCsv.Write(cetCsv, cetCheck, LotAnalyses.EllipsometryFlags(wafers));
+            }
             if (parse.GetValue(json))
             {
                 var node = System.Text.Json.Nodes.JsonNode.Parse(LotsJsonFormatter.FormatThickness(comparison))!.AsObject();
@@ -189,6 +224,7 @@ internal static class ThicknessCommand
                     });
                 }
                 node["wafers"] = array;
+                if (cetCheck is not null) node["wafer_thickness"] = CetJson(cetCheck, LotAnalyses.EllipsometryFlags(wafers));
                 context.Out.WriteLine(node.ToJsonString());
             }
             else if (comparison.Agreement is { } a)
@@ -206,11 +242,80 @@ internal static class ThicknessCommand
                 string verdict = w.Test is { } t ? $"F = {t.F:G4}, p {(t.PValue < 1e-16 ? "< 1e-16" : "= " + t.PValue.ToString("G3", CultureInfo.InvariantCulture))}: {w.Note}" : w.Note;
                 context.Out.WriteLine($"wafer {w.Lot}/{w.Wafer} (ellipsometry {LotAnalyses.Num(w.EllipsometricNm)} nm, {w.Dies} dies refitted with d fixed): {verdict}");
             }
+            if (cetCheck is not null && !parse.GetValue(json)) WriteCetText(context, cetCheck, LotAnalyses.EllipsometryFlags(wafers));
             foreach (var u in comparison.UnmatchedResults) context.Error.WriteLine($"{u.File}:0: not matched: {u.Reason}");
             foreach (var u in comparison.UnmatchedEllipsometry) context.Error.WriteLine($"{ellipsometryPath}:{u.Row.SourceLine}: not matched: {u.Reason}");
+            foreach (var u in cetCheck?.UnmatchedCet ?? []) context.Error.WriteLine($"{u.Measurement.Source}:0: not matched: {u.Reason}");
             if (plot is not null) context.Error.WriteLine($"junctionfit thickness: Bland–Altman plot {plot}");
-            return comparison.Agreement is null || LotAnalyses.RefitFailures > 0 ? ExitCodes.SomeFailed : ExitCodes.Success;
+            if (cetCheck is not null)
+            {
+                context.Error.WriteLine($"junctionfit thickness: CET - t_ox: {cetCheck.Flagged.Count()} wafer(s) flagged; per-wafer table {cetCsv}");
+            }
+            bool cetIncomplete = cetCheck is not null && cetCheck.UnmatchedCet.Length > 0;
+            return comparison.Agreement is null || LotAnalyses.RefitFailures > 0 || cetIncomplete ? ExitCodes.SomeFailed : ExitCodes.Success;
         });
         return command;
+    }
+
+    /// <summary>Parses <c>--cet-range LO:HI</c> in nm (default 0:1.2).</summary>
+    internal static (double Low, double High) ParseCetRange(string? text)
+    {
+        if (text is null) return (CetCrossCheck.DefaultLowerNm, CetCrossCheck.DefaultUpperNm);
+        int colon = text.IndexOf(':', StringComparison.Ordinal);
+        if (colon <= 0 || colon == text.Length - 1) throw new UsageException($"--cet-range: '{text}' must be LO:HI in nm, for example 0:1.2");
+        double low = QuantityParser.ParseNumber("--cet-range", text[..colon].Trim());
+        double high = QuantityParser.ParseNumber("--cet-range", text[(colon + 1)..].Trim());
+        if (!double.IsFinite(low) || !double.IsFinite(high) || !(high > low)) throw new UsageException($"--cet-range: '{text}': HI must be above LO");
+        return (low, high);
+    }
+
+    private static System.Text.Json.Nodes.JsonObject CetJson(CetCrossCheckResult r, Func<string, string, bool?> ellipsometryFlagged)
+    {
+        var array = new System.Text.Json.Nodes.JsonArray();
+        foreach (var w in r.Wafers)
+        {
+            array.Add(new System.Text.Json.Nodes.JsonObject
+            {
+                ["lot"] = w.Lot,
+                ["wafer"] = w.Wafer,
+                ["dies"] = w.Dies,
+                ["thickness_nm_median"] = w.ElectricalMedianNm,
+                ["thickness_nm_spread"] = w.ElectricalSpreadNm,
+                ["ellipsometry_nm"] = w.EllipsometricNm,
+                ["cet_nm"] = w.CetNm,
+                ["cet_files"] = w.CetFiles,
+                ["cet_upper_bound"] = w.CetIsUpperBound,
+                ["thickness_minus_ellipsometry_nm"] = w.ElectricalMinusEllipsometryNm,
+                ["cet_minus_thickness_nm"] = w.CetMinusElectricalNm,
+                ["ellipsometry_flagged"] = ellipsometryFlagged(w.Lot, w.Wafer),
+                ["cet_flagged"] = w.CetFlagged,
+                ["note"] = w.Note,
+            });
+        }
+        var unmatched = new System.Text.Json.Nodes.JsonArray();
+        foreach (var u in r.UnmatchedCet) unmatched.Add(new System.Text.Json.Nodes.JsonObject { ["file"] = u.Measurement.Source, ["reason"] = u.Reason });
+        return new System.Text.Json.Nodes.JsonObject
+        {
+            ["cet_minus_thickness_range_nm"] = new System.Text.Json.Nodes.JsonArray(r.LowerNm, r.UpperNm),
+            ["explanation"] = ThicknessBesideCet.Explanation,
+            ["wafers"] = array,
+            ["unmatched_cv"] = unmatched,
+        };
+    }
+
+    private static void WriteCetText(CliContext context, CetCrossCheckResult r, Func<string, string, bool?> ellipsometryFlagged)
+    {
+        context.Out.WriteLine($"{"lot/wafer",-16} {"dies",4} {"t_ox (nm)",18} {"ellips. (nm)",12} {"CET (nm)",10} {"t_ox-ell.",10} {"CET-t_ox",10} {"ell. flag",9} {"CET flag",9}  note");
+        foreach (var w in r.Wafers)
+        {
+            string tox = w.ElectricalMedianNm is null ? "" : $"{LotAnalyses.Num(w.ElectricalMedianNm)} ± {LotAnalyses.Num(w.ElectricalSpreadNm)}";
+            string cet = w.CetNm is null ? "" : LotAnalyses.Num(w.CetNm) + (w.CetIsUpperBound ? "+" : "");
+            string ell = ellipsometryFlagged(w.Lot, w.Wafer) switch { true => "FLAGGED", false => "-", null => "" };
+            string flag = w.CetFlagged ? "FLAGGED" : w.CetMinusElectricalNm is null ? "" : "-";
+            context.Out.WriteLine($"{w.Lot + "/" + w.Wafer,-16} {w.Dies,4} {tox,18} {LotAnalyses.Num(w.EllipsometricNm),12} {cet,10} {LotAnalyses.Num(w.ElectricalMinusEllipsometryNm),10} " +
+                                  $"{LotAnalyses.Num(w.CetMinusElectricalNm),10} {ell,9} {flag,9}  {w.Note}");
+        }
+        context.Out.WriteLine(string.Create(CultureInfo.InvariantCulture, $"t_ox: median of the good die fits ± robust spread; CET + marks an upper bound; CET - t_ox plausible from {r.LowerNm:0.###} to {r.UpperNm:0.###} nm."));
+        context.Out.WriteLine(ThicknessBesideCet.Explanation + ".");
     }
 }

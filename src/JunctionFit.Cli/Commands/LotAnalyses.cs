@@ -121,7 +121,100 @@ internal static class LotAnalyses
         return (comparison, wafers, section, plotPath);
     }
 
-    /// <summary>Outcome of the per-wafer consistency refit.</summary>
+    /// <summary>
+    /// Reads the C–V files of <c>thickness --cv</c> (files or folders), places each on a wafer by its <c># lot:</c> / <c># wafer:</c>
+    /// lines or <paramref name="pathPattern"/>, and computes CET = ε_ox ε₀ A / C_max. Prints <c>path:line: reason</c> and returns null
+    /// when a file cannot be read or states no area.
+    /// </summary>
+    public static List<CetMeasurement>? ReadCet(CliContext context, IReadOnlyList<string> paths, string? pathPattern, double? areaM2, double oxidePermittivity)
+    {
+        var (files, missing) = InputFiles.Expand(paths);
+        foreach (string m in missing) context.Error.WriteLine($"{m}:0: --cv: no such file or folder");
+        if (missing.Count > 0) return null;
+        if (files.Count == 0)
+        {
+            context.Error.WriteLine($"{paths[0]}:0: --cv: no C-V files in this folder (looked for {string.Join(", ", InputFiles.Extensions)})");
+            return null;
+        }
+        var list = new List<CetMeasurement>(files.Count);
+        bool ok = true;
+        foreach (string file in files)
+        {
+            try
+            {
+                var curve = CvFileReader.Read(file, pathPattern);
+                double area = areaM2 ?? curve.AreaM2
+                    ?? throw new IvFormatException(file, 0, "the C-V file states no area ('# area: 10000 um2'); give --cv-area");
+                var cv = Physics.CvAnalysis.Analyse(curve.VoltageV.AsSpan(), curve.CapacitanceF.AsSpan(), area, oxidePermittivity, curve.TemperatureK ?? 300.0);
+                foreach (string note in curve.Notes) context.Error.WriteLine($"{file}:0: {note}");
+                list.Add(new CetMeasurement(file, curve.Lot, curve.Wafer, cv.CapacitanceEquivalentThicknessNm, cv.Saturated));
+            }
+            catch (IvFormatException e)
+            {
+                context.Error.WriteLine(e.Message);
+                ok = false;
+            }
+            catch (ArgumentException e)
+            {
+                context.Error.WriteLine($"{file}:0: {CliApp.WithoutParameterName(e.Message)}");
+                ok = false;
+            }
+        }
+        return ok ? list : null;
+    }
+
+    /// <summary>
+    /// The per-wafer table of electrical t_ox, ellipsometry and CET with the CET flag beside the ellipsometry refit flag of
+    /// <paramref name="wafers"/>; returns the result and a report section.
+    /// </summary>
+    public static (CetCrossCheckResult Result, HtmlReportSection Section) CetCheck(IReadOnlyList<ResultRow> rows, IReadOnlyList<EllipsometryRow> ellipsometry,
+        IReadOnlyList<CetMeasurement> cet, IReadOnlyList<WaferConsistency> wafers, double lowerNm, double upperNm, double oxidePermittivity = 3.9)
+    {
+        CetCrossCheckResult result;
+        try
+        {
+            result = CetCrossCheck.Compare(rows, ellipsometry, cet, lowerNm, upperNm);
+        }
+        catch (ArgumentOutOfRangeException e)
+        {
+            throw new UsageException($"--cet-range: {CliApp.WithoutParameterName(e.Message)}");
+        }
+        var flags = EllipsometryFlags(wafers);
+        var cells = result.Wafers.Select(w => (IReadOnlyList<string>)[
+            w.Lot, w.Wafer, w.Dies.ToString(Inv), Num(w.ElectricalMedianNm), Num(w.ElectricalSpreadNm), Num(w.EllipsometricNm),
+            w.CetNm is null ? "" : Num(w.CetNm) + (w.CetIsUpperBound ? " (upper bound)" : ""), Num(w.ElectricalMinusEllipsometryNm), Num(w.CetMinusElectricalNm),
+            flags(w.Lot, w.Wafer) switch { true => "FLAGGED", false => "no", null => "" }, w.CetFlagged ? "FLAGGED" : w.CetMinusElectricalNm is null ? "" : "no", w.Note]).ToList();
+        var highlight = new HashSet<int>(result.Wafers.Select((w, i) => (w, i)).Where(x => x.w.CetFlagged || flags(x.w.Lot, x.w.Wafer) == true).Select(x => x.i));
+        var flagged = result.Flagged.ToList();
+        var section = new HtmlReportSection("thickness-cet", "Oxide thickness: die fits, ellipsometry and CET")
+        {
+            Paragraphs =
+            [
+                "Per wafer: electrical t_ox is the median of the good die fits (spread: 1.4826 × MAD), CET = eps_ox eps0 A / C_max of the wafer's C-V " +
+                string.Create(Inv, $"capacitors (eps_ox = {oxidePermittivity:0.###}, eps0 CODATA). CET - t_ox is expected between {result.LowerNm:0.###} and {result.UpperNm:0.###} nm."),
+                ThicknessBesideCet.Explanation + ".",
+                flagged.Count == 0
+                    ? "No wafer is flagged by CET - t_ox."
+                    : "Flagged by CET - t_ox: " + string.Join("; ", flagged.Select(w => $"{w.Lot}/{w.Wafer} ({Num(w.CetMinusElectricalNm)} nm)")),
+            ],
+            Tables =
+            [
+                new HtmlTable("Per wafer",
+                    ["Lot", "Wafer", "Dies", "t_ox median (nm)", "t_ox spread (nm)", "Ellipsometry (nm)", "CET (nm)", "t_ox - ellipsometry (nm)", "CET - t_ox (nm)",
+                     "Ellipsometry flag", "CET flag", "Note"], cells) { Highlight = highlight },
+            ],
+        };
+        return (result, section);
+    }
+
+    /// <summary>The ellipsometry refit flag of a wafer (null when the wafer was not tested).</summary>
+    internal static Func<string, string, bool?> EllipsometryFlags(IReadOnlyList<WaferConsistency> wafers)
+    {
+        var map = new Dictionary<(string, string), bool>();
+        foreach (var w in wafers) if (w.Test is not null) map.TryAdd((w.Lot, w.Wafer), w.Flagged);
+        return (lot, wafer) => map.TryGetValue((lot, wafer), out bool f) ? f : null;
+    }
+
     /// <summary>Dies whose file could not be read for the consistency refit in the last run (exit code 1 when any).</summary>
     internal static int RefitFailures { get; set; }
 

@@ -15,7 +15,7 @@ internal static class SimulateCommand
         var thickness = new Option<double?>("--thickness") { Description = "barrier thickness d in nm", Required = true };
         var area = new Option<string>("--area") { Description = "effective area (bare number: µm²; suffixes um2, m2, cm2, nm2)", Required = true };
         var asymmetry = new Option<double?>("--asymmetry") { Description = "barrier asymmetry Δφ in eV (models with an asymmetry parameter)" };
-        var massRatio = new Option<double>("--mass-ratio") { Description = "effective mass ratio m*/mₑ", DefaultValueFactory = _ => 1.0 };
+        var massRatio = new Option<double>("--mass-ratio") { Description = "effective mass ratio m*/mₑ (--model mos: the model's oxide mass, 0.40 for electrons, unless given)", DefaultValueFactory = _ => 1.0 };
         var set = new Option<string[]>("--set") { Description = "any other model parameter: NAME=VALUE in its display unit; repeatable" };
         var from = new Option<double>("--from") { Description = "first bias in V", Required = true };
         var to = new Option<double>("--to") { Description = "last bias in V", Required = true };
@@ -68,7 +68,9 @@ internal static class SimulateCommand
             Set("thickness_nm", Positive(parse.GetValue(thickness), "--thickness") * 1e-9, "--thickness");
             Set("area_m2", QuantityParser.ParseAreaM2(parse.GetValue(area) ?? ""), "--area");
             double mr = parse.GetValue(massRatio);
-            if (junction.IndexOf("mass_ratio") >= 0) Set("mass_ratio", Positive(mr, "--mass-ratio"), "--mass-ratio");
+            // The mos model has its own oxide masses (electrons 0.40, holes 0.32), as in fit: --mass-ratio applies only when given.
+            bool massGiven = !junction.Barrier.Name.Equals("mos", StringComparison.OrdinalIgnoreCase) || parse.GetResult(massRatio) is { Implicit: false };
+            if (junction.IndexOf("mass_ratio") >= 0 && massGiven) Set("mass_ratio", Positive(mr, "--mass-ratio"), "--mass-ratio");
             if (parse.GetValue(asymmetry) is double asym)
             {
                 var def = ParameterNames.Find(junction, "asymmetry", "--asymmetry");

@@ -512,7 +512,11 @@ public static class JunctionFitter
                              "with the area free the barrier parameters are poorly pinned — fix the area at the stated value with --area-from-file");
             }
         }
-        var transition = TransitionVoltage.Compute(curve.VoltageV.AsSpan(), curve.CurrentA.AsSpan());
+        // The transition voltage is a barrier property of a two-terminal tunnel junction; on a MOS gate current the minimum of
+        // ln(I/V²) against 1/V follows the surface potential, not the barrier, so it is not reported there.
+        var transition = model.Barrier.Name == BarrierModelCatalog.Mos
+            ? new TransitionVoltages(null, null)
+            : TransitionVoltage.Compute(curve.VoltageV.AsSpan(), curve.CurrentA.AsSpan());
 
         return new FitResult
         {

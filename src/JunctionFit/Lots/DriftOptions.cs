@@ -52,7 +52,8 @@ public sealed record PracticalThreshold
 /// Settings of <see cref="DriftAnalysis"/>. Immutable and checked on construction.
 /// <para>
 /// Default practical thresholds — common practice for process monitoring of tunnel barriers, no published source:
-/// 0.05 eV for <c>barrier_height_eV</c>, 0.05 nm for <c>thickness_nm</c>, 10 % of the reference mean for
+/// 0.05 eV for <c>barrier_height_eV</c>, 0.05 nm for <c>thickness_nm</c>, 0.05 V for <c>flatband_voltage_V</c> (the mos
+/// model; a relative threshold would follow the sign and size of V_fb), 10 % of the reference mean for
 /// <c>area_m2</c>, <c>mass_ratio</c>, <c>transition_voltage_V</c> and any other key.
 /// </para>
 /// </summary>
@@ -74,6 +75,7 @@ public sealed record DriftOptions
             new KeyValuePair<string, PracticalThreshold>("barrier_height_eV", PracticalThreshold.Absolute(0.05)),
             new KeyValuePair<string, PracticalThreshold>("thickness_nm", PracticalThreshold.Absolute(0.05)),
             new KeyValuePair<string, PracticalThreshold>("area_m2", PracticalThreshold.Relative(0.10)),
+            new KeyValuePair<string, PracticalThreshold>("flatband_voltage_V", PracticalThreshold.Absolute(0.05)),
         ]);
 
     /// <summary>Reference lots: their good dies are pooled as the reference sample, and they set the control limits.</summary>

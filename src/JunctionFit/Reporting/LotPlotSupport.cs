@@ -33,6 +33,7 @@ internal static class LotPlotSupport
         "area_m2" => new("A", "effective area", "µm²", 1e12),
         "mass_ratio" => new("m*/mₑ", "mass ratio", "", 1),
         ResultRow.TransitionVoltageKey => new("V_t", "transition voltage", "V", 1),
+        "flatband_voltage_V" => new("V_fb", "flat-band voltage", "V", 1),
         _ => new(key, key, "", 1),
     };
 
