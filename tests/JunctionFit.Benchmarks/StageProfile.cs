@@ -61,6 +61,18 @@ internal static class StageProfile
 
         Time("fit: JunctionFitter.Fit (everything)", k => results[k] = JunctionFitter.Fit(curves[k], model, options), floorUs);
         Time("  masks, ln|I|, noise estimate (PreparedCurve)", k => PreparedCurve.From(curves[k], options), floorUs);
+        var prepared = curves.Select(c => PreparedCurve.From(c, options)).ToArray();
+        bool[] free = [true, true, false, false];
+        Time("  start grid (81 cells on 32 points)", k => JunctionFitter.GridStarts(model, theta, free, prepared[k].VoltageV, prepared[k].LogAbsCurrent, prepared[k].InverseSigma, 2), floorUs);
+        Time("  one solve from the best grid cell", k =>
+        {
+            var d = prepared[k];
+            var start = JunctionFitter.GridStarts(model, theta, free, d.VoltageV, d.LogAbsCurrent, d.InverseSigma, 1)[0];
+            var pr = new LogCurrentProblem(model, d.VoltageV, d.LogAbsCurrent, d.InverseSigma, [0, 1], start);
+            LevenbergMarquardtSolver.Minimize(pr, [Math.Log(start[0]), Math.Log(start[1])], options.Solver);
+        }, floorUs);
+        Time("  noise estimate alone", k => NoiseEstimator.RelativeNoise(prepared[k].VoltageV, prepared[k].LogAbsCurrent), floorUs);
+        Time("  noise floor estimate alone", k => NoiseFloorEstimator.Estimate(curves[k].VoltageV.AsSpan(), curves[k].CurrentA.AsSpan(), []), floorUs);
         Time("  transition voltage", k => TransitionVoltage.Compute(curves[k].VoltageV.AsSpan(), curves[k].CurrentA.AsSpan()), floorUs);
         Time("json: FitJsonFormatter.Format", k => FitJsonFormatter.Format(results[k]), floorUs);
     }
