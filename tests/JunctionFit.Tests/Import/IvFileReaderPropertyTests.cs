@@ -237,7 +237,8 @@ public class IvFileReaderPropertyTests
     private static bool HasThreeWellAboveZero(double[] current)
     {
         double max = current.Max(Math.Abs);
-        return current.Count(x => Math.Abs(x) >= 1e-3 * max) >= 3;
+        // Clearly above the importer's 1e-3 × max cut (a point exactly at the cut may fall either side after unit conversion).
+        return current.Count(x => Math.Abs(x) >= 2e-3 * max) >= 3;
     }
 
     private static bool Close(double a, double b, double rel)
