@@ -55,6 +55,24 @@ public sealed class DatabaseSqliteTests : IDisposable
     public void StoreBatch_TwoProcessesAtOnce_LoseNoRow() => DatabaseStoreContract.TwoProcessesWritingAtOnce_LoseNoRow(_db, Open);
 
     [Fact]
+    public void Claim_TwoWorkersAtOnce_NeverHoldTheSameFile() => DatabaseStoreContract.TwoClaimers_NeverHoldTheSameFile_AndTogetherCoverAll(Open);
+
+    [Fact]
+    public void Claim_HeldByOther_TakenOverAfterLease() => DatabaseStoreContract.Claim_HeldByOther_NotGrantedUntilLeaseExpires_ThenTakenOver(Open);
+
+    [Fact]
+    public void RenewClaims_BeforeLeaseEnds_KeepsClaim() => DatabaseStoreContract.RenewClaims_KeepsTheClaimPastTheFirstLease(Open);
+
+    [Fact]
+    public void Claim_DoneFile_NotGrantedUnlessForced() => DatabaseStoreContract.DoneClaims_NotGrantedAgain_UnlessDoneBeforeTheForceTime(Open);
+
+    [Fact]
+    public void ReleaseClaims_Released_OthersMayClaim() => DatabaseStoreContract.ReleaseClaims_OthersMayClaimAtOnce(Open);
+
+    [Fact]
+    public void StoreBatch_FittedByAndAt_RoundTrip() => DatabaseStoreContract.FittedByAndAt_StoredAndReadBack_DefaultsToHostAndWriteTime(Open);
+
+    [Fact]
     public void Open_NewFile_IsWalWithSchemaVersionTable()
     {
         using (var store = Open())
@@ -64,7 +82,7 @@ public sealed class DatabaseSqliteTests : IDisposable
         }
         using var c = Raw();
         Assert.Equal("wal", Scalar(c, "PRAGMA journal_mode"));
-        Assert.Equal("1", Scalar(c, "SELECT COUNT(*) FROM schema_version"));
+        Assert.Equal("2", Scalar(c, "SELECT COUNT(*) FROM schema_version")); // one row per migration step
         Assert.Equal(ResultStore.CurrentSchemaVersion.ToString(System.Globalization.CultureInfo.InvariantCulture), Scalar(c, "SELECT MAX(version) FROM schema_version"));
     }
 
