@@ -120,7 +120,11 @@ internal sealed class SharedWork
         var granted = new HashSet<ResultKey>();
         if (indices.Count == 0) return granted;
         var requests = indices.Select(k => new ClaimRequest(_keys[k]!.Value, _files[k])).ToList();
-        granted.UnionWith(_store.Claim(requests, _worker, _lease, since));
+        foreach (var (key, from) in _store.Claim(requests, _worker, _lease, since))
+        {
+            granted.Add(key);
+            if (from is not null) TakenOver++;
+        }
         if (!_force && granted.Count > 0)
         {
             // Stored since this worker looked (by another worker, or by a batch without claims): not fitted again.
@@ -175,21 +179,17 @@ internal sealed class SharedWork
                 continue;
             }
 
-            var before = _store.Claims(keys);
             var granted = Grant(deferred, since);
             if (granted.Count == 0 && !_force)
             {
                 // Done claims whose result is gone (deleted by hand): nobody will store them, so take them again.
-                var lost = deferred.Where(k => before.TryGetValue(_keys[k]!.Value, out var c) && c.State == ClaimState.Done).ToList();
+                var claims = _store.Claims(keys);
+                var lost = deferred.Where(k => claims.TryGetValue(_keys[k]!.Value, out var c) && c.State == ClaimState.Done).ToList();
                 if (lost.Count > 0) granted = Grant(lost, _store.ClockUtc());
             }
             if (granted.Count > 0)
             {
                 var todo = deferred.Where(k => granted.Contains(_keys[k]!.Value)).ToList();
-                foreach (int k in todo)
-                {
-                    if (before.TryGetValue(_keys[k]!.Value, out var c) && c.State == ClaimState.Claimed) TakenOver++;
-                }
                 deferred.RemoveAll(k => granted.Contains(_keys[k]!.Value));
                 Fit(todo, process, jobs, consume, flush);
                 continue;

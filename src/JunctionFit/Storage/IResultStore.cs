@@ -90,11 +90,12 @@ public interface IResultStore : IDisposable
     /// <param name="worker">The claiming worker.</param>
     /// <param name="lease">How long the claim holds without renewal (more than zero, at most one day).</param>
     /// <param name="reclaimDoneBefore">Completed claims done before this time may be claimed again; null: never.</param>
-    /// <returns>The keys granted.</returns>
+    /// <returns>The keys granted, each with the <see cref="WorkerIdentity.ClaimedBy"/> of the worker whose lapsed claim was
+    /// taken over, or null when the claim is new (or the worker's own, or of a done file).</returns>
     /// <exception cref="ArgumentNullException">An argument is null.</exception>
     /// <exception cref="ArgumentOutOfRangeException"><paramref name="lease"/> is out of range.</exception>
     /// <exception cref="ResultStoreException">The database cannot be written.</exception>
-    IReadOnlySet<ResultKey> Claim(IReadOnlyList<ClaimRequest> requests, WorkerIdentity worker, TimeSpan lease, DateTimeOffset? reclaimDoneBefore = null);
+    IReadOnlyDictionary<ResultKey, string?> Claim(IReadOnlyList<ClaimRequest> requests, WorkerIdentity worker, TimeSpan lease, DateTimeOffset? reclaimDoneBefore = null);
 
     /// <summary>The claim rows of the given keys (keys without a claim are left out).</summary>
     /// <param name="keys">Keys, in any number.</param>

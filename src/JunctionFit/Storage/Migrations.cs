@@ -152,6 +152,7 @@ internal static class Migrations
                     claimed_at TEXT NOT NULL,
                     lease_expires_at TEXT NOT NULL,
                     done_at TEXT,
+                    taken_over_from TEXT,
                     PRIMARY KEY (file_sha256, model, options_hash)
                 )
                 """,
@@ -172,6 +173,7 @@ internal static class Migrations
                     claimed_at TIMESTAMPTZ NOT NULL,
                     lease_expires_at TIMESTAMPTZ NOT NULL,
                     done_at TIMESTAMPTZ,
+                    taken_over_from TEXT,
                     PRIMARY KEY (file_sha256, model, options_hash)
                 )
                 """,

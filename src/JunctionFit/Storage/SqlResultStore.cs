@@ -325,7 +325,7 @@ internal abstract class SqlResultStore : IResultStore
     public virtual DateTimeOffset ClockUtc() => DateTimeOffset.UtcNow;
 
     /// <inheritdoc />
-    public IReadOnlySet<ResultKey> Claim(IReadOnlyList<ClaimRequest> requests, WorkerIdentity worker, TimeSpan lease, DateTimeOffset? reclaimDoneBefore = null)
+    public IReadOnlyDictionary<ResultKey, string?> Claim(IReadOnlyList<ClaimRequest> requests, WorkerIdentity worker, TimeSpan lease, DateTimeOffset? reclaimDoneBefore = null)
     {
         ArgumentNullException.ThrowIfNull(requests);
         ArgumentNullException.ThrowIfNull(worker);
@@ -337,7 +337,7 @@ internal abstract class SqlResultStore : IResultStore
             ArgumentException.ThrowIfNullOrEmpty(r.FilePath, nameof(requests));
             paths[r.Key] = r.FilePath;
         }
-        var granted = new HashSet<ResultKey>();
+        var granted = new Dictionary<ResultKey, string?>();
         if (paths.Count == 0) return granted;
         var groups = GroupKeys(paths.Keys);
         return InWriteTransaction("claiming files", (connection, transaction) =>
@@ -349,17 +349,19 @@ internal abstract class SqlResultStore : IResultStore
                 {
                     int n = Math.Min(KeyQueryChunk, hashes.Count - start);
                     var sql = new StringBuilder(
-                        "INSERT INTO work_claim (file_sha256, model, options_hash, file_path, state, claimed_by, claimed_at, lease_expires_at, done_at) VALUES ");
+                        "INSERT INTO work_claim (file_sha256, model, options_hash, file_path, state, claimed_by, claimed_at, lease_expires_at, done_at, taken_over_from) VALUES ");
                     for (int i = 0; i < n; i++)
                     {
                         string k = i.ToString(Inv);
                         sql.Append(i == 0 ? "" : ", ").Append("(@h").Append(k).Append(", @m, @o, @p").Append(k)
-                           .Append(", 'claimed', @by, ").Append(NowSql).Append(", ").Append(LeaseEndSql).Append(", NULL)");
+                           .Append(", 'claimed', @by, ").Append(NowSql).Append(", ").Append(LeaseEndSql).Append(", NULL, NULL)");
                     }
                     sql.Append(" ON CONFLICT (file_sha256, model, options_hash) DO UPDATE SET file_path = excluded.file_path, state = 'claimed', " +
-                               "claimed_by = excluded.claimed_by, claimed_at = excluded.claimed_at, lease_expires_at = excluded.lease_expires_at, done_at = NULL " +
+                               "claimed_by = excluded.claimed_by, claimed_at = excluded.claimed_at, lease_expires_at = excluded.lease_expires_at, done_at = NULL, " +
+                               // The worker whose lapsed claim is taken over (null when the claim is new, renewed or of a done file).
+                               "taken_over_from = CASE WHEN work_claim.state = 'claimed' AND work_claim.claimed_by <> excluded.claimed_by THEN work_claim.claimed_by END " +
                                "WHERE (work_claim.state = 'claimed' AND (work_claim.lease_expires_at < ").Append(NowSql)
-                       .Append(" OR work_claim.claimed_by = excluded.claimed_by)) OR (work_claim.state = 'done' AND work_claim.done_at < @since) RETURNING file_sha256");
+                       .Append(" OR work_claim.claimed_by = excluded.claimed_by)) OR (work_claim.state = 'done' AND work_claim.done_at < @since) RETURNING file_sha256, taken_over_from");
                     using var cmd = Command(connection, transaction, sql.ToString());
                     AddParameter(cmd, "@m", ColumnKind.Text, model);
                     AddParameter(cmd, "@o", ColumnKind.Text, options);
@@ -373,10 +375,10 @@ internal abstract class SqlResultStore : IResultStore
                         AddParameter(cmd, "@p" + i.ToString(Inv), ColumnKind.Text, paths[new ResultKey(h, model, options)]);
                     }
                     using var reader = cmd.ExecuteReader();
-                    while (reader.Read()) granted.Add(new ResultKey(reader.GetString(0), model, options));
+                    while (reader.Read()) granted[new ResultKey(reader.GetString(0), model, options)] = reader.IsDBNull(1) ? null : reader.GetString(1);
                 }
             }
-            return (IReadOnlySet<ResultKey>)granted;
+            return (IReadOnlyDictionary<ResultKey, string?>)granted;
         });
     }
 
@@ -395,7 +397,7 @@ internal abstract class SqlResultStore : IResultStore
                 {
                     int n = Math.Min(KeyQueryChunk, hashes.Count - start);
                     using var cmd = Command(connection, null,
-                        "SELECT file_sha256, file_path, state, claimed_by, claimed_at, lease_expires_at, done_at FROM work_claim " +
+                        "SELECT file_sha256, file_path, state, claimed_by, claimed_at, lease_expires_at, done_at, taken_over_from FROM work_claim " +
                         "WHERE model = @m AND options_hash = @o AND file_sha256 IN (" + HashList(n) + ")");
                     AddParameter(cmd, "@m", ColumnKind.Text, model);
                     AddParameter(cmd, "@o", ColumnKind.Text, options);
@@ -406,7 +408,7 @@ internal abstract class SqlResultStore : IResultStore
                         var key = new ResultKey(reader.GetString(0), model, options);
                         var state = reader.GetString(2) == "done" ? ClaimState.Done : ClaimState.Claimed;
                         found[key] = new ClaimInfo(key, reader.GetString(1), state, reader.GetString(3), ReadTime(reader, 4), ReadTime(reader, 5),
-                            reader.IsDBNull(6) ? null : ReadTime(reader, 6));
+                            reader.IsDBNull(6) ? null : ReadTime(reader, 6), reader.IsDBNull(7) ? null : reader.GetString(7));
                     }
                 }
             }

@@ -96,5 +96,6 @@ public enum ClaimState
 /// <param name="ClaimedUtc">When it was claimed (database clock).</param>
 /// <param name="LeaseExpiresUtc">When the claim may be taken over unless renewed (database clock).</param>
 /// <param name="DoneUtc">When it was completed; null while claimed.</param>
+/// <param name="TakenOverFrom">The worker whose lapsed claim <paramref name="ClaimedBy"/> took over; null when it claimed a free file.</param>
 public sealed record ClaimInfo(ResultKey Key, string FilePath, ClaimState State, string ClaimedBy, DateTimeOffset ClaimedUtc,
-    DateTimeOffset LeaseExpiresUtc, DateTimeOffset? DoneUtc);
+    DateTimeOffset LeaseExpiresUtc, DateTimeOffset? DoneUtc, string? TakenOverFrom);

@@ -332,7 +332,8 @@ internal static class DatabaseStoreContract
             for (int first = 0; first < Dies; first += 16)
             {
                 var granted = store.Claim(Requests(Enumerable.Range(first, 16)), workers[w], TimeSpan.FromMinutes(5));
-                got[w].AddRange(granted);
+                got[w].AddRange(granted.Keys);
+                Assert.All(granted.Values, from => Assert.Null(from)); // long leases: nothing is taken over
             }
         })).ToList();
         threads.ForEach(t => t.Start());
@@ -360,6 +361,9 @@ internal static class DatabaseStoreContract
         Thread.Sleep(TimeSpan.FromSeconds(1.5)); // past a's lease
         var taken = store.Claim(Requests([1, 2, 3, 4]), b, TimeSpan.FromMinutes(1));
         Assert.Equal(4, taken.Count);
+        Assert.Equal(a.ClaimedBy, taken[DemoResults.Key(1)]); // taken over from a
+        Assert.Null(taken[DemoResults.Key(4)]); // a new claim
+        Assert.Equal(a.ClaimedBy, store.Claims([DemoResults.Key(2)])[DemoResults.Key(2)].TakenOverFrom);
         // a comes back late: its claims are b's now, so a stores nothing and b's results count.
         Assert.Empty(store.StoreClaimed([DemoResults.Row(1, run, variant: 1)], a));
         Assert.Equal(0, store.Count());
@@ -413,7 +417,7 @@ internal static class DatabaseStoreContract
         var b = Worker("b");
         store.Claim(Requests([20, 21, 22]), a, TimeSpan.FromMinutes(10));
         Assert.Equal(1, store.ReleaseClaims(a, [DemoResults.Key(21)]));
-        Assert.Equal([DemoResults.Key(21)], store.Claim(Requests([20, 21, 22]), b, TimeSpan.FromMinutes(10)));
+        Assert.Equal([DemoResults.Key(21)], store.Claim(Requests([20, 21, 22]), b, TimeSpan.FromMinutes(10)).Keys);
         Assert.Equal(2, store.ReleaseClaims(a));
         Assert.Equal(2, store.Claim(Requests([20, 22]), b, TimeSpan.FromMinutes(10)).Count);
         Assert.Empty(store.Claims([DemoResults.Key(99)]));
