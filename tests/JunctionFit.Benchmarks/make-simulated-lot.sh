@@ -1,8 +1,8 @@
 #!/usr/bin/env bash
 # Writes N invented I-V files for batch throughput and shared-work runs (sample-data/README.md's invented scenario):
 # one noise-free Simmons curve from `junctionfit simulate` (phi = 1.9 eV, d = 1.5 nm, 100 um2, -0.8 ... +0.8 V,
-# 81 points), then per file k a fresh 1 % Gaussian current noise with seed k, a barrier drift across the lot being
-# left out (every file is a different sample of the same junction), lot/wafer/die headers, 100 files per folder.
+# 81 points), then per file k its own 1 % Gaussian current noise (seed k): every file is another measurement of
+# the same junction. Lot/wafer/die headers, 100 files per folder.
 # Calling `simulate` once rather than N times keeps 10^4 files to seconds; the content of every file differs, so
 # every file has its own result identity.
 #

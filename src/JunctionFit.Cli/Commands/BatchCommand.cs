@@ -146,7 +146,7 @@ internal static class BatchCommand
         var storeRun = RunInfo.StartNew(VersionInfo.Text);
         var worker = WorkerIdentity.Current(s.WorkerName);
         var work = store is null ? null : new SharedWork(store, worker, s.Lease, s.Force, files, fileKeys, context.Error);
-        var dbWriter = store is null ? null : new ChunkedResultWriter(store, chunkSize: SharedWork.ChunkSize, claimsOf: worker);
+        var dbWriter = store is null ? null : new ChunkedResultWriter(store, chunkSize: SharedWork.MaxBlock, claimsOf: worker);
         using (var writer = new StreamWriter(partial, false, AtomicFile.Utf8NoBom))
         {
             writer.Write(ResultsCsv.FormatHeader(keys));
