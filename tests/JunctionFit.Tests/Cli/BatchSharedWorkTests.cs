@@ -140,6 +140,69 @@ public partial class BatchSharedWorkTests
         Assert.Equal(byB, csvLines.Count(l => l.Contains(",B@", StringComparison.Ordinal)));
     }
 
+    [Theory]
+    [InlineData("--lease", "0.5s", "outside 1 s to 1 h")]
+    [InlineData("--lease", "2 days", "is not a duration")]
+    [InlineData("--lease", "2h", "outside 1 s to 1 h")]
+    [InlineData("--worker-name", "node 1", "has ' '")]
+    public void Batch_BadLeaseOrWorkerName_ExitCode2WithMessage(string option, string value, string expected)
+    {
+        using var dir = new TempFolder();
+        Directory.CreateDirectory(dir.File("in"));
+        var (code, _, err) = CliRunner.Run("batch", dir.File("in"), "--out", dir.File("out"), option, value);
+        Assert.Equal(2, code);
+        Assert.Contains(option + ":", err, StringComparison.Ordinal);
+        Assert.Contains(expected, err, StringComparison.Ordinal);
+        Assert.DoesNotContain("   at ", err, StringComparison.Ordinal);
+    }
+
+    [Theory]
+    [InlineData("30s", 30.0)]
+    [InlineData("2m", 120.0)]
+    [InlineData("1500ms", 1.5)]
+    [InlineData("45", 45.0)]
+    [InlineData("1h", 3600.0)]
+    public void ParseLease_Units_Seconds(string text, double seconds)
+        => Assert.Equal(TimeSpan.FromSeconds(seconds), JunctionFit.Cli.Commands.BatchCommand.ParseLease(text));
+
+    [Fact]
+    public void Batch_OneWorkerNamed_FittedByInResultsCsvExportAndNoClaimLeftOpen()
+    {
+        using var dir = new TempFolder();
+        string input = dir.File("in");
+        Directory.CreateDirectory(input);
+        var model = new JunctionCurrentModel(SimmonsRectangularModel.Instance);
+        for (int k = 0; k < 5; k++)
+        {
+            double[] theta = [1.9 * PhysicalConstants.JoulePerElectronVolt, 1.5e-9, 1.0, 100e-12];
+            var (v, i) = IvSimulator.Simulate(model, theta, new SimulationSpec(-0.8, 0.8, 41) { RelativeNoise = 0.01, Seed = k + 1 });
+            File.WriteAllText(Path.Combine(input, $"die_{k}.csv"),
+                "Voltage (V),Current (A)\n" + string.Concat(v.Select((x, p) => string.Create(CultureInfo.InvariantCulture, $"{x:R},{i[p]:R}\n"))));
+        }
+        string db = dir.File("lab.db");
+        var before = DateTimeOffset.UtcNow;
+        var (code, _, err) = CliRunner.Run("batch", input, "--out", dir.File("out"), "--db", db, "--no-plots", "--area", "100", "--worker-name", "node-1");
+        Assert.True(code == 0, err);
+        Assert.DoesNotContain("taken from other workers", err, StringComparison.Ordinal); // one worker: the usual messages only
+        using (var store = ResultStore.Open(db))
+        {
+            var rows = store.Query();
+            Assert.Equal(5, rows.Count);
+            Assert.All(rows, r => Assert.Equal($"node-1@{Environment.MachineName}:{Environment.ProcessId}", r.FittedBy));
+            Assert.All(rows, r => Assert.InRange(r.FittedAt!.Value, before.AddSeconds(-1), r.StoredUtc!.Value.AddSeconds(1)));
+            var claims = store.Claims(rows.Select(r => r.Key));
+            Assert.Equal(5, claims.Count);
+            Assert.All(claims.Values, c => Assert.Equal(ClaimState.Done, c.State));
+        }
+        var (rc, csv, rerr) = CliRunner.Run("results", "--db", db, "--csv");
+        Assert.True(rc == 0, rerr);
+        var lines = csv.Split('\n', StringSplitOptions.RemoveEmptyEntries);
+        Assert.EndsWith(",fitted_by,fitted_at", lines[0], StringComparison.Ordinal);
+        Assert.All(lines.Skip(1), l => Assert.Contains($",node-1@{Environment.MachineName}:{Environment.ProcessId},", l, StringComparison.Ordinal));
+        // The batch's own results.csv keeps exactly its columns.
+        Assert.EndsWith(",warnings,error", File.ReadLines(dir.File("out/results.csv")).First(), StringComparison.Ordinal);
+    }
+
     [PostgresFact]
     public void Batch_TwoWorkersOneKilledAndRestarted_PostgresStoresEachFileOnce()
     {

@@ -140,6 +140,38 @@ public sealed class DatabaseSqliteTests : IDisposable
         Assert.Equal(1, again.Count());
     }
 
+    [Fact]
+    public void Open_Version1Database_MigratesKeepingRowsWithHostAsFittedBy()
+    {
+        // A database as version 1 left it: its DDL and one result row written by hand.
+        Directory.CreateDirectory(Path.GetDirectoryName(_db)!);
+        using (var c = Raw())
+        {
+            void Exec(string sql)
+            {
+                using var cmd = c.CreateCommand();
+                cmd.CommandText = sql;
+                cmd.ExecuteNonQuery();
+            }
+            Exec(Migrations.CreateVersionTable);
+            foreach (string sql in Migrations.All[0].Sqlite) Exec(sql);
+            Exec("INSERT INTO schema_version VALUES (1, '2025-03-14T10:00:00Z', 'v1')");
+            var key = DemoResults.Key(3);
+            string options = DemoResults.Options.Replace("'", "''", StringComparison.Ordinal);
+            Exec("INSERT INTO fit_result (file_sha256, model, options_hash, options_text, file_path, status, warnings_json, correlation_json, " +
+                 "parameter_count, run_id, run_started_utc, tool_version, host, stored_utc) VALUES " +
+                 $"('{key.FileSha256}', 'simmons', '{key.OptionsHash}', '{options}', 'KM-A01/W00/die_03_00.csv', 'failed', '[]', " +
+                 "'{\"keys\": [], \"matrix\": []}', 0, 'run-1', '2025-03-14T10:15:00.0000000Z', '0.9', 'probe-7', '2025-03-14T10:16:00.0000000Z')");
+        }
+        using var store = Open();
+        Assert.Equal(2, store.SchemaVersion);
+        var row = Assert.Single(store.Query());
+        Assert.Equal("probe-7", row.FittedBy);
+        Assert.Equal(new DateTimeOffset(2025, 3, 14, 10, 16, 0, TimeSpan.Zero), row.FittedAt);
+        Assert.Empty(store.Claims([row.Key]));
+        Assert.Empty(store.CheckConsistency());
+    }
+
     private SqliteConnection Raw()
     {
         var c = new SqliteConnection(new SqliteConnectionStringBuilder { DataSource = _db, Pooling = false }.ConnectionString);
