@@ -37,7 +37,7 @@ internal static class BatchCommand
         var force = new Option<bool>("--force") { Description = "refit files whose result is already stored for the same content, model and options" };
         var lease = new Option<string?>("--lease")
         {
-            Description = "with --db: how long a file claimed by this worker stays claimed without renewal before another worker may take it over (30s, 2m, 500ms; default 30s)",
+            Description = "with --db: how long a file claimed by this worker stays claimed without renewal before another worker may take it over (30s, 2m, 1500ms or seconds; 1 s to 1 h; default 30s)",
         };
         var workerName = new Option<string?>("--worker-name") { Description = "with --db: a name for this worker, recorded in fitted_by as NAME@host:pid" };
         var fitOptions = new FitOptionSet();
@@ -326,7 +326,7 @@ internal static class BatchCommand
         string number = t[..^unit.Length].Trim();
         if (!double.TryParse(number, NumberStyles.Float, CultureInfo.InvariantCulture, out double value) || !double.IsFinite(value))
         {
-            throw new UsageException($"--lease: '{text}' is not a duration (write 30s, 2m, 500ms or a number of seconds)");
+            throw new UsageException($"--lease: '{text}' is not a duration (write 30s, 2m, 1500ms or a number of seconds)");
         }
         double seconds = value * scale;
         if (seconds < 1 || seconds > 3600) throw new UsageException($"--lease: {text} is outside 1 s to 1 h");

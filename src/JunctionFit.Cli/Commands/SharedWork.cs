@@ -21,6 +21,10 @@ internal sealed class SharedWork
     /// <summary>The default lease.</summary>
     public static readonly TimeSpan DefaultLease = TimeSpan.FromSeconds(30);
 
+    /// <summary>Leases without a finished file after which the heartbeat stops renewing: a worker whose fitting thread hangs
+    /// (a frozen file store) lets its claims lapse even though its heartbeat thread still runs.</summary>
+    public const int StallLeases = 10;
+
     private readonly IResultStore _store;
     private readonly WorkerIdentity _worker;
     private readonly TimeSpan _lease;
@@ -29,6 +33,7 @@ internal sealed class SharedWork
     private readonly ResultKey?[] _keys;
     private readonly TextWriter _error;
     private readonly int _block;
+    private long _lastProgressTicks = Environment.TickCount64;
 
     /// <summary>Creates the work of one batch.</summary>
     /// <param name="store">The database.</param>
@@ -83,7 +88,8 @@ internal sealed class SharedWork
             local[k] = isLocal(k) || _keys[k] is not ResultKey key || !seen.Add(key);
         }
         var deferred = new List<int>();
-        using var heartbeat = new Heartbeat(openHeartbeatStore, _worker, _lease, _error);
+        using var heartbeat = new Heartbeat(openHeartbeatStore, _worker, _lease, _error,
+            () => TimeSpan.FromMilliseconds(Environment.TickCount64 - Interlocked.Read(ref _lastProgressTicks)) < _lease * StallLeases);
         try
         {
             var todo = new List<int>(_block);
@@ -122,6 +128,7 @@ internal sealed class SharedWork
     {
         var granted = new HashSet<ResultKey>();
         if (indices.Count == 0) return granted;
+        Touch();
         var requests = indices.Select(k => new ClaimRequest(_keys[k]!.Value, _files[k])).ToList();
         foreach (var (key, from) in _store.Claim(requests, _worker, _lease, since))
         {
@@ -142,13 +149,20 @@ internal sealed class SharedWork
         return granted;
     }
 
-    private static void Fit(List<int> todo, Func<int, CurveOutcome> process, int jobs, Action<int, CurveOutcome> consume, Action flush)
+    private void Fit(List<int> todo, Func<int, CurveOutcome> process, int jobs, Action<int, CurveOutcome> consume, Action flush)
     {
         if (todo.Count == 0) return;
         var chunk = todo.ToArray();
-        CurvePipeline.Run(chunk.Length, j => process(chunk[j]), jobs, (j, outcome) => consume(chunk[j], outcome));
+        CurvePipeline.Run(chunk.Length, j =>
+        {
+            var outcome = process(chunk[j]);
+            Touch();
+            return outcome;
+        }, jobs, (j, outcome) => consume(chunk[j], outcome));
         flush();
     }
+
+    private void Touch() => Interlocked.Exchange(ref _lastProgressTicks, Environment.TickCount64);
 
     /// <summary>The files other workers held: take them from the database as they are stored, or take over expired claims.</summary>
     private void Finish(List<int> deferred, DateTimeOffset? since, Func<int, CurveOutcome> process, int jobs, Action<int, CurveOutcome> consume, Action flush)
@@ -201,14 +215,15 @@ internal sealed class SharedWork
         }
     }
 
-    /// <summary>Renews this worker's leases every third of the lease, on a thread and a connection of its own.</summary>
+    /// <summary>Renews this worker's leases every third of the lease, on a thread and a connection of its own, while
+    /// <c>alive</c> says the fitting threads make progress.</summary>
     private sealed class Heartbeat : IDisposable
     {
         private readonly ManualResetEventSlim _stop = new(false);
         private readonly Thread _thread;
         private bool _disposed;
 
-        public Heartbeat(Func<IResultStore> open, WorkerIdentity worker, TimeSpan lease, TextWriter error)
+        public Heartbeat(Func<IResultStore> open, WorkerIdentity worker, TimeSpan lease, TextWriter error, Func<bool> alive)
         {
             var interval = lease / 3;
             _thread = new Thread(() =>
@@ -219,6 +234,7 @@ internal sealed class SharedWork
                 {
                     while (!_stop.Wait(interval))
                     {
+                        if (!alive()) continue;
                         try
                         {
                             store ??= open();
