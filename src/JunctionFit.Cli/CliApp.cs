@@ -55,5 +55,11 @@ public static class CliApp
             stderr.WriteLine($"junctionfit: {e.Message}");
             return ExitCodes.UsageOrInput;
         }
+        catch (JunctionFit.Storage.ResultStoreException e)
+        {
+            // The results database failed mid-run (server gone, disk full): what was committed stays; a rerun completes it.
+            stderr.WriteLine($"junctionfit: {e.Message}; results stored so far are kept, run the command again to complete it");
+            return ExitCodes.UsageOrInput;
+        }
     }
 }

@@ -9,6 +9,6 @@ public static class ExitCodes
     /// <summary>Some inputs failed or fitted poorly (each reported), while others were processed.</summary>
     public const int SomeFailed = 1;
 
-    /// <summary>Bad usage (unknown option, bad value) or no input could be read.</summary>
+    /// <summary>Bad usage (unknown option, bad value), no input could be read, or the results database failed.</summary>
     public const int UsageOrInput = 2;
 }

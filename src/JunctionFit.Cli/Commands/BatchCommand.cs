@@ -35,6 +35,11 @@ internal static class BatchCommand
         var db = new Option<string?>("--db") { Description = "results database: a SQLite file (default OUTDIR/junctionfit.db) or a PostgreSQL connection string" };
         var noDb = new Option<bool>("--no-db") { Description = "do not store results in a database" };
         var force = new Option<bool>("--force") { Description = "refit files whose result is already stored for the same content, model and options" };
+        var lease = new Option<string?>("--lease")
+        {
+            Description = "with --db: how long a file claimed by this worker stays claimed without renewal before another worker may take it over (30s, 2m, 1500ms or seconds; 1 s to 1 h; default 30s)",
+        };
+        var workerName = new Option<string?>("--worker-name") { Description = "with --db: a name for this worker, recorded in fitted_by as NAME@host:pid" };
         var fitOptions = new FitOptionSet();
         var read = new ReadOptionSet();
         var command = new Command("batch", "Fit a whole lot: results.csv, fit plots, wafer maps, lot summary and report.html.");
@@ -45,6 +50,8 @@ internal static class BatchCommand
         command.Options.Add(db);
         command.Options.Add(noDb);
         command.Options.Add(force);
+        command.Options.Add(lease);
+        command.Options.Add(workerName);
         fitOptions.AddTo(command);
         read.AddTo(command);
         command.SetAction(parse =>
@@ -57,6 +64,8 @@ internal static class BatchCommand
             {
                 Database = parse.GetValue(noDb) ? null : parse.GetValue(db) ?? Path.Combine(parse.GetValue(outDir)!, ResultStore.DefaultFileName),
                 Force = parse.GetValue(force),
+                Lease = parse.GetValue(lease) is string l ? ParseLease(l) : SharedWork.DefaultLease,
+                WorkerName = parse.GetValue(workerName) is string w ? CheckWorkerName(w) : null,
                 IdentityExtras = [.. FitOptionSet.IdentityExtras(plan), .. ReadOptionSet.IdentityExtras(readOptions)],
             };
             return Run(context, settings).ExitCode;
@@ -71,6 +80,12 @@ internal static class BatchCommand
 
         /// <summary>Refit what is already stored.</summary>
         public bool Force { get; init; }
+
+        /// <summary>How long a claim holds without renewal (several workers on one database).</summary>
+        public TimeSpan Lease { get; init; } = SharedWork.DefaultLease;
+
+        /// <summary>Name of this worker in <c>fitted_by</c>; null for <c>host:pid</c> alone.</summary>
+        public string? WorkerName { get; init; }
 
         /// <summary>Settings beyond <see cref="FitOptions"/> that change a fit, for the result identity.</summary>
         public IReadOnlyList<KeyValuePair<string, string>> IdentityExtras { get; init; } = [];
@@ -122,20 +137,32 @@ internal static class BatchCommand
                 var existing = store.ExistingKeys(fileKeys.OfType<ResultKey>());
                 if (existing.Count > 0)
                 {
-                    foreach (var r in store.Query(model: s.Plan.DisplayName))
-                    {
-                        if (existing.Contains(r.Key)) stored[r.Key] = r;
-                    }
+                    foreach (var r in store.QueryKeys(existing)) stored[r.Key] = r;
                     context.Error.WriteLine($"junctionfit batch: {stored.Count} of {files.Count} files are already stored with the same content, model and options; " +
                                             "they are not refitted (--force refits them)");
                 }
             }
         }
         var storeRun = RunInfo.StartNew(VersionInfo.Text);
-        var dbWriter = store is null ? null : new ChunkedResultWriter(store, chunkSize: 100);
+        var worker = WorkerIdentity.Current(s.WorkerName);
+        var work = store is null ? null : new SharedWork(store, worker, s.Lease, s.Force, files, fileKeys, context.Error);
+        var dbWriter = store is null ? null : new ChunkedResultWriter(store, chunkSize: SharedWork.MaxBlock, claimsOf: worker);
         using (var writer = new StreamWriter(partial, false, AtomicFile.Utf8NoBom))
         {
             writer.Write(ResultsCsv.FormatHeader(keys));
+            // Rows go out in input order: one that arrives early (another worker's file came later) waits for its predecessors.
+            var waiting = new ResultRow?[files.Count];
+            int nextRow = 0;
+            void Emit(int index, ResultRow row)
+            {
+                waiting[index] = row;
+                while (nextRow < files.Count && waiting[nextRow] is ResultRow ready)
+                {
+                    writer.Write(ResultsCsv.FormatRow(ready, keys));
+                    rows.Add(ready);
+                    waiting[nextRow++] = null;
+                }
+            }
             CurveOutcome Process(int k)
             {
                 if (fileKeys[k] is ResultKey key && stored.TryGetValue(key, out var previous))
@@ -146,11 +173,15 @@ internal static class BatchCommand
                 // Render on the worker thread; the ordered consumer only writes the bytes.
                 return s.Plots && fitted.Result.Curve is not null ? fitted with { PlotPng = FitPlotRenderer.RenderPng(fitted.Result) } : fitted;
             }
-            CurvePipeline.Run(files.Count, Process, s.Jobs, (index, outcome) =>
+            void Consume(int index, CurveOutcome outcome)
             {
-                if (dbWriter is not null && !outcome.FromStore && fileKeys[index] is ResultKey newKey)
+                if (dbWriter is not null && work!.Claimed[index] && !outcome.FromStore && fileKeys[index] is ResultKey newKey)
                 {
-                    dbWriter.Add(new StoredResult(newKey, optionsText, storeRun, outcome.Result with { Curve = null }));
+                    dbWriter.Add(new StoredResult(newKey, optionsText, storeRun, outcome.Result with { Curve = null })
+                    {
+                        FittedBy = worker.FittedBy,
+                        FittedAt = DateTimeOffset.UtcNow,
+                    });
                 }
                 if (outcome.ReadError is not null)
                 {
@@ -170,12 +201,29 @@ internal static class BatchCommand
                     AtomicFile.WriteAllBytes(plot, png);
                 }
                 plotByIndex[index] = plot;
-                var row = ResultRow.FromFitResult(result);
-                writer.Write(ResultsCsv.FormatRow(row, keys));
-                rows.Add(row);
+                Emit(index, ResultRow.FromFitResult(result));
                 KeepForReport(reportCandidates, index, result with { Curve = null }, plot);
                 progress.Report(++done);
-            });
+            }
+            if (work is null)
+            {
+                CurvePipeline.Run(files.Count, Process, s.Jobs, Consume);
+            }
+            else
+            {
+                work.Run(k => fileKeys[k] is ResultKey key && stored.ContainsKey(key), Process, s.Jobs, Consume, dbWriter!.Flush,
+                    () => OpenStore(context, s.Database!));
+                if (work.FromOthers > 0 || work.TakenOver > 0)
+                {
+                    context.Error.WriteLine($"junctionfit batch: worker {worker.FittedBy}: {work.Claimed.Count(c => c)} files fitted here, " +
+                                            $"{work.FromOthers} taken from other workers' results, {work.TakenOver} taken over from workers whose lease lapsed");
+                }
+                if (dbWriter.Dropped > 0)
+                {
+                    context.Error.WriteLine($"junctionfit batch: warning: {dbWriter.Dropped} results not stored: their claim lapsed and another worker took the file over " +
+                                            "(a longer --lease avoids this)");
+                }
+            }
             writer.Flush();
             writer.BaseStream.Flush();
         }
@@ -270,6 +318,38 @@ internal static class BatchCommand
         return new BatchOutcome(code, rows, resultsPath, reportPath);
     }
 
+    /// <summary>Parses a <c>--lease</c> value: a number with <c>ms</c>, <c>s</c>, <c>m</c> or <c>h</c> (no unit: seconds), 1 s to 1 h.</summary>
+    internal static TimeSpan ParseLease(string text)
+    {
+        string t = text.Trim();
+        (string unit, double scale) = t.EndsWith("ms", StringComparison.OrdinalIgnoreCase) ? ("ms", 0.001)
+            : t.EndsWith('s') || t.EndsWith('S') ? ("s", 1.0)
+            : t.EndsWith('m') || t.EndsWith('M') ? ("m", 60.0)
+            : t.EndsWith('h') || t.EndsWith('H') ? ("h", 3600.0)
+            : ("", 1.0);
+        string number = t[..^unit.Length].Trim();
+        if (!double.TryParse(number, NumberStyles.Float, CultureInfo.InvariantCulture, out double value) || !double.IsFinite(value))
+        {
+            throw new UsageException($"--lease: '{text}' is not a duration (write 30s, 2m, 1500ms or a number of seconds)");
+        }
+        double seconds = value * scale;
+        if (seconds < 1 || seconds > 3600) throw new UsageException($"--lease: {text} is outside 1 s to 1 h");
+        return TimeSpan.FromSeconds(seconds);
+    }
+
+    private static string CheckWorkerName(string name)
+    {
+        try
+        {
+            WorkerIdentity.CheckName(name);
+            return name;
+        }
+        catch (ArgumentException e)
+        {
+            throw new UsageException($"--worker-name: {e.Message.Split(" (Parameter", 2)[0]}");
+        }
+    }
+
     internal static IResultStore OpenStore(CliContext context, string database)
     {
         try
@@ -312,7 +392,9 @@ internal static class BatchCommand
             if (Rank(kept[i].Result.Status) > Rank(kept[worst].Result.Status) ||
                 (Rank(kept[i].Result.Status) == Rank(kept[worst].Result.Status) && kept[i].Index > kept[worst].Index)) worst = i;
         }
-        if (Rank(result.Status) < Rank(kept[worst].Result.Status)) kept[worst] = (index, result, plot);
+        // Better rank, or equal rank and earlier in the input: the kept set does not depend on the order results arrive in.
+        if (Rank(result.Status) < Rank(kept[worst].Result.Status) ||
+            (Rank(result.Status) == Rank(kept[worst].Result.Status) && index < kept[worst].Index)) kept[worst] = (index, result, plot);
     }
 
     private static FitResult RowAsResult(ResultRow row) => new()

@@ -135,6 +135,50 @@ internal static class Migrations
                 "CREATE INDEX fit_result_run ON fit_result (run_id)",
                 "CREATE INDEX fit_parameter_key ON fit_parameter (param_key)",
             ]),
+        new Migration(2, "fitted_by and fitted_at per result; work_claim for several batch workers sharing one lot",
+            Sqlite:
+            [
+                "ALTER TABLE fit_result ADD COLUMN fitted_by TEXT",
+                "ALTER TABLE fit_result ADD COLUMN fitted_at TEXT",
+                "UPDATE fit_result SET fitted_by = host, fitted_at = stored_utc",
+                """
+                CREATE TABLE work_claim (
+                    file_sha256 TEXT NOT NULL,
+                    model TEXT NOT NULL,
+                    options_hash TEXT NOT NULL,
+                    file_path TEXT NOT NULL,
+                    state TEXT NOT NULL CHECK (state IN ('claimed', 'done')),
+                    claimed_by TEXT NOT NULL,
+                    claimed_at TEXT NOT NULL,
+                    lease_expires_at TEXT NOT NULL,
+                    done_at TEXT,
+                    taken_over_from TEXT,
+                    PRIMARY KEY (file_sha256, model, options_hash)
+                )
+                """,
+                "CREATE INDEX work_claim_active ON work_claim (claimed_by) WHERE state = 'claimed'",
+            ],
+            PostgreSql:
+            [
+                "ALTER TABLE fit_result ADD COLUMN fitted_by TEXT, ADD COLUMN fitted_at TIMESTAMPTZ",
+                "UPDATE fit_result SET fitted_by = host, fitted_at = stored_utc",
+                """
+                CREATE TABLE work_claim (
+                    file_sha256 TEXT NOT NULL,
+                    model TEXT NOT NULL,
+                    options_hash TEXT NOT NULL,
+                    file_path TEXT NOT NULL,
+                    state TEXT NOT NULL CHECK (state IN ('claimed', 'done')),
+                    claimed_by TEXT NOT NULL,
+                    claimed_at TIMESTAMPTZ NOT NULL,
+                    lease_expires_at TIMESTAMPTZ NOT NULL,
+                    done_at TIMESTAMPTZ,
+                    taken_over_from TEXT,
+                    PRIMARY KEY (file_sha256, model, options_hash)
+                )
+                """,
+                "CREATE INDEX work_claim_active ON work_claim (claimed_by) WHERE state = 'claimed'",
+            ]),
     ];
 
     /// <summary>The newest version.</summary>

@@ -63,6 +63,35 @@ internal sealed class PostgresResultStore : SqlResultStore
     }
 
     /// <inheritdoc />
+    protected override string NowSql => "now()";
+
+    /// <inheritdoc />
+    protected override string LeaseEndSql => "now() + make_interval(secs => @lease_s)";
+
+    /// <inheritdoc />
+    protected override void AddClock(DbCommand command, bool now, TimeSpan? lease)
+    {
+        if (lease is TimeSpan l) AddParameter(command, "@lease_s", ColumnKind.Real, l.TotalSeconds);
+    }
+
+    /// <inheritdoc />
+    public override DateTimeOffset ClockUtc()
+    {
+        try
+        {
+            using var lease = Lease();
+            using var cmd = Command(lease.Connection, null, "SELECT now()");
+            using var reader = cmd.ExecuteReader();
+            reader.Read();
+            return reader.GetFieldValue<DateTimeOffset>(0).ToUniversalTime();
+        }
+        catch (DbException e)
+        {
+            throw new ResultStoreException($"{Description}: reading the server clock failed: {ConnectionStrings.Redact(e.Message)}", e);
+        }
+    }
+
+    /// <inheritdoc />
     protected override ConnectionLease Lease()
     {
         try

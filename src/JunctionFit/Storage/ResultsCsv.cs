@@ -73,6 +73,27 @@ public static class ResultsCsv
         return sb.ToString();
     }
 
+    /// <summary>The table as <see cref="Format(IReadOnlyList{ResultRow})"/> does, with further columns after the standard ones.</summary>
+    /// <param name="rows">Rows in output order.</param>
+    /// <param name="extraColumns">Names of the added columns.</param>
+    /// <param name="extraCells">The added cells of row i (as many as <paramref name="extraColumns"/>).</param>
+    /// <returns>CSV text ending with a line feed.</returns>
+    internal static string Format(IReadOnlyList<ResultRow> rows, IReadOnlyList<string> extraColumns, Func<int, IReadOnlyList<string>> extraCells)
+    {
+        ArgumentNullException.ThrowIfNull(rows);
+        var keys = ResultRow.ParameterKeysOf(rows);
+        var sb = new StringBuilder(256 * (rows.Count + 1));
+        CsvText.WriteRecord(sb, [.. Columns(keys), .. extraColumns]);
+        var fields = new List<string>(LeadingColumns.Length + 4 * keys.Length + TrailingColumns.Length + extraColumns.Count);
+        for (int i = 0; i < rows.Count; i++)
+        {
+            var extra = extraCells(i);
+            if (extra.Count != extraColumns.Count) throw new ArgumentException($"row {i} has {extra.Count} extra cells for {extraColumns.Count} columns", nameof(extraCells));
+            AppendRow(sb, rows[i], keys, fields, extra);
+        }
+        return sb.ToString();
+    }
+
     /// <summary>The header line (with its line feed) for streaming output with fixed parameter keys.</summary>
     public static string FormatHeader(IReadOnlyList<string> parameterKeys)
     {
@@ -90,7 +111,7 @@ public static class ResultsCsv
         return sb.ToString();
     }
 
-    private static void AppendRow(StringBuilder sb, ResultRow row, IReadOnlyList<string> keys, List<string> fields)
+    private static void AppendRow(StringBuilder sb, ResultRow row, IReadOnlyList<string> keys, List<string> fields, IReadOnlyList<string>? extra = null)
     {
         {
             fields.Clear();
@@ -113,6 +134,7 @@ public static class ResultsCsv
             fields.Add(CsvText.Number(row.TransitionVoltageV));
             fields.Add(string.Join(WarningSeparator, row.Warnings.Select(w => OneLine(w).Replace(WarningSeparator, " / ", StringComparison.Ordinal))));
             fields.Add(OneLine(row.Error ?? ""));
+            if (extra is not null) foreach (string cell in extra) fields.Add(OneLine(cell));
             CsvText.WriteRecord(sb, fields);
         }
     }

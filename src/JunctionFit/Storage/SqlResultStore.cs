@@ -58,6 +58,7 @@ internal abstract class SqlResultStore : IResultStore
         ("transition_voltage_v", ColumnKind.Real), ("warnings_json", ColumnKind.Text), ("correlation_json", ColumnKind.Text),
         ("parameter_count", ColumnKind.Int), ("run_id", ColumnKind.Text), ("run_started_utc", ColumnKind.Time),
         ("tool_version", ColumnKind.Text), ("host", ColumnKind.Text), ("stored_utc", ColumnKind.Time),
+        ("fitted_by", ColumnKind.Text), ("fitted_at", ColumnKind.Time),
     ];
 
     private static readonly (string Name, ColumnKind Kind)[] ParameterColumns =
@@ -84,7 +85,7 @@ internal abstract class SqlResultStore : IResultStore
         "r.id, r.file_sha256, r.model, r.options_hash, r.options_text, r.file_path, r.lot, r.wafer, r.die_x, r.die_y, " +
         "r.status, r.error, r.points_used, r.points_masked, r.iterations, r.rss, r.reduced_chi2, r.converged, r.stop_reason, " +
         "r.covariance_scaling, r.interval_method, r.transition_voltage_v, r.warnings_json, r.correlation_json, r.parameter_count, " +
-        "r.run_id, r.run_started_utc, r.tool_version, r.host, r.stored_utc, " +
+        "r.run_id, r.run_started_utc, r.tool_version, r.host, r.stored_utc, r.fitted_by, r.fitted_at, " +
         "p.ordinal, p.param_key, p.symbol, p.unit, p.value, p.stderr, p.lower95, p.upper95, p.is_fixed";
 
     private bool _disposed;
@@ -140,6 +141,23 @@ internal abstract class SqlResultStore : IResultStore
     /// <summary>Engine-specific checks (SQLite's integrity check); adds problems in words.</summary>
     protected virtual void EngineChecks(DbConnection connection, List<string> problems)
     {
+    }
+
+    /// <summary>The current time in SQL, on the clock claims are compared against (SQLite: the parameter <c>@now</c>).</summary>
+    protected virtual string NowSql => "@now";
+
+    /// <summary>The end of a new lease in SQL (SQLite: the parameter <c>@lease_end</c>).</summary>
+    protected virtual string LeaseEndSql => "@lease_end";
+
+    /// <summary>Adds the parameters <see cref="NowSql"/> and <see cref="LeaseEndSql"/> use, from the local clock.</summary>
+    /// <param name="command">The command.</param>
+    /// <param name="now">The statement uses <see cref="NowSql"/>.</param>
+    /// <param name="lease">The lease, when the statement uses <see cref="LeaseEndSql"/>.</param>
+    protected virtual void AddClock(DbCommand command, bool now, TimeSpan? lease)
+    {
+        var t = DateTimeOffset.UtcNow;
+        if (now) AddParameter(command, "@now", ColumnKind.Time, TimeValue(t));
+        if (lease is TimeSpan l) AddParameter(command, "@lease_end", ColumnKind.Time, TimeValue(t + l));
     }
 
     /// <summary>Brings the schema to <see cref="Migrations.Latest"/> (see <see cref="Migrations"/>).</summary>
@@ -275,6 +293,219 @@ internal abstract class SqlResultStore : IResultStore
     }
 
     /// <inheritdoc />
+    public IReadOnlyList<StoredResult> QueryKeys(IEnumerable<ResultKey> keys)
+    {
+        var groups = GroupKeys(keys);
+        var rows = new List<StoredResult>();
+        if (groups.Count == 0) return rows;
+        return Read("reading results", connection =>
+        {
+            rows.Clear();
+            foreach (var ((model, options), hashes) in groups)
+            {
+                var wanted = new HashSet<string>(hashes, StringComparer.Ordinal);
+                for (int start = 0; start < hashes.Count; start += KeyQueryChunk)
+                {
+                    int n = Math.Min(KeyQueryChunk, hashes.Count - start);
+                    string sql = $"SELECT {SelectColumns} FROM fit_result r LEFT JOIN fit_parameter p ON p.result_id = r.id " +
+                                 "WHERE r.model = @m AND r.options_hash = @o AND r.file_sha256 IN (" + HashList(n) + ") ORDER BY r.id, p.ordinal";
+                    using var cmd = Command(connection, null, sql);
+                    AddParameter(cmd, "@m", ColumnKind.Text, model);
+                    AddParameter(cmd, "@o", ColumnKind.Text, options);
+                    for (int i = 0; i < n; i++) AddParameter(cmd, "@h" + i.ToString(Inv), ColumnKind.Text, hashes[start + i]);
+                    using var reader = cmd.ExecuteReader();
+                    rows.AddRange(ReadRows(reader));
+                }
+            }
+            return (IReadOnlyList<StoredResult>)rows;
+        });
+    }
+
+    /// <inheritdoc />
+    public virtual DateTimeOffset ClockUtc() => DateTimeOffset.UtcNow;
+
+    /// <inheritdoc />
+    public IReadOnlyDictionary<ResultKey, string?> Claim(IReadOnlyList<ClaimRequest> requests, WorkerIdentity worker, TimeSpan lease, DateTimeOffset? reclaimDoneBefore = null)
+    {
+        ArgumentNullException.ThrowIfNull(requests);
+        ArgumentNullException.ThrowIfNull(worker);
+        CheckLease(lease);
+        var paths = new Dictionary<ResultKey, string>();
+        foreach (var r in requests)
+        {
+            CheckKey(r.Key);
+            ArgumentException.ThrowIfNullOrEmpty(r.FilePath, nameof(requests));
+            paths[r.Key] = r.FilePath;
+        }
+        var granted = new Dictionary<ResultKey, string?>();
+        if (paths.Count == 0) return granted;
+        var groups = GroupKeys(paths.Keys);
+        return InWriteTransaction("claiming files", (connection, transaction) =>
+        {
+            granted.Clear();
+            foreach (var ((model, options), hashes) in groups)
+            {
+                for (int start = 0; start < hashes.Count; start += KeyQueryChunk)
+                {
+                    int n = Math.Min(KeyQueryChunk, hashes.Count - start);
+                    var sql = new StringBuilder(
+                        "INSERT INTO work_claim (file_sha256, model, options_hash, file_path, state, claimed_by, claimed_at, lease_expires_at, done_at, taken_over_from) VALUES ");
+                    for (int i = 0; i < n; i++)
+                    {
+                        string k = i.ToString(Inv);
+                        sql.Append(i == 0 ? "" : ", ").Append("(@h").Append(k).Append(", @m, @o, @p").Append(k)
+                           .Append(", 'claimed', @by, ").Append(NowSql).Append(", ").Append(LeaseEndSql).Append(", NULL, NULL)");
+                    }
+                    sql.Append(" ON CONFLICT (file_sha256, model, options_hash) DO UPDATE SET file_path = excluded.file_path, state = 'claimed', " +
+                               "claimed_by = excluded.claimed_by, claimed_at = excluded.claimed_at, lease_expires_at = excluded.lease_expires_at, done_at = NULL, " +
+                               // The worker whose lapsed claim is taken over (null when the claim is new, renewed or of a done file).
+                               "taken_over_from = CASE WHEN work_claim.state = 'claimed' AND work_claim.claimed_by <> excluded.claimed_by THEN work_claim.claimed_by END " +
+                               "WHERE (work_claim.state = 'claimed' AND (work_claim.lease_expires_at < ").Append(NowSql)
+                       .Append(" OR work_claim.claimed_by = excluded.claimed_by)) OR (work_claim.state = 'done' AND work_claim.done_at < @since) RETURNING file_sha256, taken_over_from");
+                    using var cmd = Command(connection, transaction, sql.ToString());
+                    AddParameter(cmd, "@m", ColumnKind.Text, model);
+                    AddParameter(cmd, "@o", ColumnKind.Text, options);
+                    AddParameter(cmd, "@by", ColumnKind.Text, worker.ClaimedBy);
+                    AddParameter(cmd, "@since", ColumnKind.Time, reclaimDoneBefore is DateTimeOffset t ? TimeValue(t) : null);
+                    AddClock(cmd, now: true, lease);
+                    for (int i = 0; i < n; i++)
+                    {
+                        string h = hashes[start + i];
+                        AddParameter(cmd, "@h" + i.ToString(Inv), ColumnKind.Text, h);
+                        AddParameter(cmd, "@p" + i.ToString(Inv), ColumnKind.Text, paths[new ResultKey(h, model, options)]);
+                    }
+                    using var reader = cmd.ExecuteReader();
+                    while (reader.Read()) granted[new ResultKey(reader.GetString(0), model, options)] = reader.IsDBNull(1) ? null : reader.GetString(1);
+                }
+            }
+            return (IReadOnlyDictionary<ResultKey, string?>)granted;
+        });
+    }
+
+    /// <inheritdoc />
+    public IReadOnlyDictionary<ResultKey, ClaimInfo> Claims(IEnumerable<ResultKey> keys)
+    {
+        var groups = GroupKeys(keys);
+        var found = new Dictionary<ResultKey, ClaimInfo>();
+        if (groups.Count == 0) return found;
+        return Read("reading claims", connection =>
+        {
+            found.Clear();
+            foreach (var ((model, options), hashes) in groups)
+            {
+                for (int start = 0; start < hashes.Count; start += KeyQueryChunk)
+                {
+                    int n = Math.Min(KeyQueryChunk, hashes.Count - start);
+                    using var cmd = Command(connection, null,
+                        "SELECT file_sha256, file_path, state, claimed_by, claimed_at, lease_expires_at, done_at, taken_over_from FROM work_claim " +
+                        "WHERE model = @m AND options_hash = @o AND file_sha256 IN (" + HashList(n) + ")");
+                    AddParameter(cmd, "@m", ColumnKind.Text, model);
+                    AddParameter(cmd, "@o", ColumnKind.Text, options);
+                    for (int i = 0; i < n; i++) AddParameter(cmd, "@h" + i.ToString(Inv), ColumnKind.Text, hashes[start + i]);
+                    using var reader = cmd.ExecuteReader();
+                    while (reader.Read())
+                    {
+                        var key = new ResultKey(reader.GetString(0), model, options);
+                        var state = reader.GetString(2) == "done" ? ClaimState.Done : ClaimState.Claimed;
+                        found[key] = new ClaimInfo(key, reader.GetString(1), state, reader.GetString(3), ReadTime(reader, 4), ReadTime(reader, 5),
+                            reader.IsDBNull(6) ? null : ReadTime(reader, 6), reader.IsDBNull(7) ? null : reader.GetString(7));
+                    }
+                }
+            }
+            return (IReadOnlyDictionary<ResultKey, ClaimInfo>)found;
+        });
+    }
+
+    /// <inheritdoc />
+    public int RenewClaims(WorkerIdentity worker, TimeSpan lease)
+    {
+        ArgumentNullException.ThrowIfNull(worker);
+        CheckLease(lease);
+        return InWriteTransaction("renewing claims", (connection, transaction) =>
+        {
+            using var cmd = Command(connection, transaction,
+                $"UPDATE work_claim SET lease_expires_at = {LeaseEndSql} WHERE claimed_by = @by AND state = 'claimed'");
+            AddParameter(cmd, "@by", ColumnKind.Text, worker.ClaimedBy);
+            AddClock(cmd, now: LeaseEndSql.Contains(NowSql, StringComparison.Ordinal), lease);
+            return cmd.ExecuteNonQuery();
+        });
+    }
+
+    /// <inheritdoc />
+    public int ReleaseClaims(WorkerIdentity worker, IEnumerable<ResultKey>? keys = null)
+    {
+        ArgumentNullException.ThrowIfNull(worker);
+        var groups = keys is null ? null : GroupKeys(keys);
+        if (groups is { Count: 0 }) return 0;
+        return InWriteTransaction("releasing claims", (connection, transaction) =>
+        {
+            const string Delete = "DELETE FROM work_claim WHERE claimed_by = @by AND state = 'claimed'";
+            if (groups is null)
+            {
+                using var all = Command(connection, transaction, Delete);
+                AddParameter(all, "@by", ColumnKind.Text, worker.ClaimedBy);
+                return all.ExecuteNonQuery();
+            }
+            int released = 0;
+            foreach (var ((model, options), hashes) in groups)
+            {
+                for (int start = 0; start < hashes.Count; start += KeyQueryChunk)
+                {
+                    int n = Math.Min(KeyQueryChunk, hashes.Count - start);
+                    using var cmd = Command(connection, transaction, Delete + " AND model = @m AND options_hash = @o AND file_sha256 IN (" + HashList(n) + ")");
+                    AddParameter(cmd, "@by", ColumnKind.Text, worker.ClaimedBy);
+                    AddParameter(cmd, "@m", ColumnKind.Text, model);
+                    AddParameter(cmd, "@o", ColumnKind.Text, options);
+                    for (int i = 0; i < n; i++) AddParameter(cmd, "@h" + i.ToString(Inv), ColumnKind.Text, hashes[start + i]);
+                    released += cmd.ExecuteNonQuery();
+                }
+            }
+            return released;
+        });
+    }
+
+    /// <inheritdoc />
+    public IReadOnlyList<ResultKey> StoreClaimed(IReadOnlyList<StoredResult> results, WorkerIdentity worker, bool replaceExisting = true)
+    {
+        ArgumentNullException.ThrowIfNull(results);
+        ArgumentNullException.ThrowIfNull(worker);
+        ObjectDisposedException.ThrowIf(_disposed, this);
+        var byKey = new Dictionary<ResultKey, StoredResult>(results.Count);
+        foreach (var r in results)
+        {
+            ArgumentNullException.ThrowIfNull(r, nameof(results));
+            byKey[r.Key] = r;
+        }
+        if (byKey.Count == 0) return [];
+        var groups = GroupKeys(byKey.Keys);
+        return InWriteTransaction("storing claimed results", (connection, transaction) =>
+        {
+            // First complete the claims this worker still holds; a file whose claim another worker took over is left to it.
+            var held = new List<StoredResult>(byKey.Count);
+            foreach (var ((model, options), hashes) in groups)
+            {
+                for (int start = 0; start < hashes.Count; start += KeyQueryChunk)
+                {
+                    int n = Math.Min(KeyQueryChunk, hashes.Count - start);
+                    using var cmd = Command(connection, transaction,
+                        $"UPDATE work_claim SET state = 'done', done_at = {NowSql} WHERE claimed_by = @by AND state = 'claimed' " +
+                        "AND model = @m AND options_hash = @o AND file_sha256 IN (" + HashList(n) + ") RETURNING file_sha256");
+                    AddParameter(cmd, "@by", ColumnKind.Text, worker.ClaimedBy);
+                    AddParameter(cmd, "@m", ColumnKind.Text, model);
+                    AddParameter(cmd, "@o", ColumnKind.Text, options);
+                    AddClock(cmd, now: true, null);
+                    for (int i = 0; i < n; i++) AddParameter(cmd, "@h" + i.ToString(Inv), ColumnKind.Text, hashes[start + i]);
+                    using var reader = cmd.ExecuteReader();
+                    while (reader.Read()) held.Add(byKey[new ResultKey(reader.GetString(0), model, options)]);
+                }
+            }
+            held.Sort((a, b) => CompareKeys(a.Key, b.Key));
+            WriteChunk(connection, transaction, held, replaceExisting);
+            return (IReadOnlyList<ResultKey>)[.. held.Select(r => r.Key)];
+        });
+    }
+
+    /// <inheritdoc />
     public long Count() => Read("counting results", connection =>
     {
         using var cmd = Command(connection, null, "SELECT COUNT(*) FROM fit_result");
@@ -385,6 +616,7 @@ internal abstract class SqlResultStore : IResultStore
                     q?.StopReason, q?.CovarianceScaling, q?.IntervalMethod,
                     Finite(r.TransitionVoltageV), WarningsJson(r.Warnings), CorrelationJson(r), r.Parameters.Length,
                     row.Run.RunId, TimeValue(row.Run.StartedUtc), row.Run.ToolVersion, row.Run.Host, TimeValue(storedUtc),
+                    row.FittedBy ?? row.Run.Host, TimeValue(row.FittedAt ?? storedUtc),
                 ];
                 for (int i = 0; i < v.Length; i++) p[i].Value = v[i] ?? DBNull.Value;
                 object? id = upsert.ExecuteScalar();
@@ -463,7 +695,7 @@ internal abstract class SqlResultStore : IResultStore
                 pending = new DbDataReaderRow(this, reader);
                 currentId = id;
             }
-            if (!reader.IsDBNull(30)) pending!.AddParameter(reader);
+            if (!reader.IsDBNull(32)) pending!.AddParameter(reader);
         }
         if (pending is not null) rows.Add(pending.Build());
         return rows;
@@ -476,6 +708,8 @@ internal abstract class SqlResultStore : IResultStore
         private readonly string _optionsText;
         private readonly RunInfo _run;
         private readonly DateTimeOffset _storedUtc;
+        private readonly string? _fittedBy;
+        private readonly DateTimeOffset? _fittedAt;
         private readonly FitResult _result;
         private readonly ImmutableArray<ParameterEstimate>.Builder _parameters;
 
@@ -506,14 +740,20 @@ internal abstract class SqlResultStore : IResultStore
             _parameters = ImmutableArray.CreateBuilder<ParameterEstimate>(r.GetInt32(24));
             _run = new RunInfo(r.GetString(25), store.ReadTime(r, 26), r.GetString(27), TextOr(r, 28));
             _storedUtc = store.ReadTime(r, 29);
+            _fittedBy = TextOr(r, 30) is { Length: > 0 } by ? by : null;
+            _fittedAt = r.IsDBNull(31) ? null : store.ReadTime(r, 31);
         }
 
         public void AddParameter(DbDataReader r) => _parameters.Add(new ParameterEstimate(
-            r.GetString(31), r.GetString(32), r.GetString(33), DoubleOr(r, 34) ?? double.NaN,
-            DoubleOr(r, 35), DoubleOr(r, 36), DoubleOr(r, 37), r.GetBoolean(38)));
+            r.GetString(33), r.GetString(34), r.GetString(35), DoubleOr(r, 36) ?? double.NaN,
+            DoubleOr(r, 37), DoubleOr(r, 38), DoubleOr(r, 39), r.GetBoolean(40)));
 
         public StoredResult Build()
-            => new(_key, _optionsText, _run, _result with { Parameters = _parameters.ToImmutable() }, _storedUtc);
+            => new(_key, _optionsText, _run, _result with { Parameters = _parameters.ToImmutable() }, _storedUtc)
+            {
+                FittedBy = _fittedBy,
+                FittedAt = _fittedAt,
+            };
     }
 
     private T Read<T>(string what, Func<DbConnection, T> work)
@@ -590,6 +830,48 @@ internal abstract class SqlResultStore : IResultStore
     private static void CheckKey(ResultKey key)
     {
         if (key.Model is null) throw new ArgumentException("the key is empty (default)", nameof(key));
+    }
+
+    private static void CheckLease(TimeSpan lease)
+    {
+        if (lease <= TimeSpan.Zero || lease > TimeSpan.FromDays(1))
+        {
+            throw new ArgumentOutOfRangeException(nameof(lease), lease, "a lease must be more than zero and at most one day");
+        }
+    }
+
+    private static int CompareKeys(ResultKey a, ResultKey b)
+    {
+        int c = string.CompareOrdinal(a.FileSha256, b.FileSha256);
+        if (c == 0) c = string.CompareOrdinal(a.Model, b.Model);
+        return c != 0 ? c : string.CompareOrdinal(a.OptionsHash, b.OptionsHash);
+    }
+
+    /// <summary>Keys grouped by (model, options hash), file hashes sorted and distinct in each group (a fixed lock order).</summary>
+    private static List<KeyValuePair<(string Model, string Options), List<string>>> GroupKeys(IEnumerable<ResultKey> keys)
+    {
+        ArgumentNullException.ThrowIfNull(keys);
+        var groups = new Dictionary<(string, string), SortedSet<string>>();
+        foreach (var k in keys)
+        {
+            CheckKey(k);
+            if (!groups.TryGetValue((k.Model, k.OptionsHash), out var set))
+            {
+                set = new SortedSet<string>(StringComparer.Ordinal);
+                groups.Add((k.Model, k.OptionsHash), set);
+            }
+            set.Add(k.FileSha256);
+        }
+        return [.. groups.OrderBy(g => g.Key.Item1, StringComparer.Ordinal).ThenBy(g => g.Key.Item2, StringComparer.Ordinal)
+            .Select(g => new KeyValuePair<(string, string), List<string>>(g.Key, [.. g.Value]))];
+    }
+
+    /// <summary><c>@h0, @h1, …</c> for <paramref name="n"/> hashes.</summary>
+    private static string HashList(int n)
+    {
+        var sb = new StringBuilder(n * 6);
+        for (int i = 0; i < n; i++) sb.Append(i == 0 ? "@h" : ", @h").Append(i.ToString(Inv));
+        return sb.ToString();
     }
 
     private static double? Finite(double? x) => x is double v && !double.IsNaN(v) ? v : null;

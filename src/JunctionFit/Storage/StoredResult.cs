@@ -106,4 +106,20 @@ public sealed record StoredResult
 
     /// <summary>When the row was last written (by this run or a <c>--force</c> rerun); null before it is stored.</summary>
     public DateTimeOffset? StoredUtc { get; }
+
+    /// <summary>
+    /// The worker that fitted the result (<see cref="WorkerIdentity.FittedBy"/>: <c>host:pid</c> or <c>NAME@host:pid</c>,
+    /// at most 300 characters). Null when writing: the store then records the run's <see cref="RunInfo.Host"/>. Read back as
+    /// stored (the host alone for rows stored before schema version 2).
+    /// </summary>
+    public string? FittedBy
+    {
+        get;
+        init => field = value is null || value.Length is > 0 and <= 300
+            ? value
+            : throw new ArgumentException("fitted_by must be 1 to 300 characters", nameof(FittedBy));
+    }
+
+    /// <summary>When the fit was made (UTC). Null when writing: the store then records the time of the write.</summary>
+    public DateTimeOffset? FittedAt { get; init; }
 }

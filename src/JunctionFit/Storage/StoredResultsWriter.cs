@@ -9,13 +9,14 @@ using JunctionFit.Results;
 namespace JunctionFit.Storage;
 
 /// <summary>
-/// Stored results as the <c>results</c> command prints them: CSV with exactly the columns of a batch's
-/// <c>results.csv</c>, or one JSON object per line.
+/// Stored results as the <c>results</c> command prints them: CSV with the columns of a batch's <c>results.csv</c> followed
+/// by <c>fitted_by, fitted_at</c>, or one JSON object per line.
 /// <para>
 /// CSV columns, in order: <c>file, lot, wafer, die_x, die_y, model, status</c>; for each parameter key K —
 /// <c>barrier_height_eV, thickness_nm, area_m2, mass_ratio</c> always, then any other key in order of first appearance —
-/// <c>K, K_stderr, K_lo, K_hi</c> in the key's unit; then <c>reduced_chi2, transition_voltage_V, warnings, error</c>.
-/// Numbers are invariant shortest round-trip text, an unknown value is an empty cell, warnings are joined with
+/// <c>K, K_stderr, K_lo, K_hi</c> in the key's unit; then <c>reduced_chi2, transition_voltage_V, warnings, error</c>; then
+/// <see cref="WorkColumns"/>: <c>fitted_by</c> (the worker, <c>host:pid</c> or <c>NAME@host:pid</c>) and <c>fitted_at</c>
+/// (ISO 8601 UTC). Numbers are invariant shortest round-trip text, an unknown value is an empty cell, warnings are joined with
 /// <c>" | "</c> (a <c>" | "</c> inside a warning becomes <c>" / "</c>), line breaks inside a cell become spaces. Quoting
 /// follows RFC 4180 (a cell with a comma, a quote, a line break or an edge space is quoted, quotes doubled); lines end
 /// with a line feed.
@@ -23,7 +24,7 @@ namespace JunctionFit.Storage;
 /// <para>
 /// A JSON line has the same keys in the same order (numbers as numbers, unknown as <c>null</c>, <c>warnings</c> as an
 /// array, <c>error</c> null unless failed), followed by <c>points_used, points_masked, file_sha256, options_hash, run_id,
-/// run_started_utc, tool_version, host, stored_utc</c>.
+/// run_started_utc, tool_version, host, stored_utc, fitted_by, fitted_at</c>.
 /// </para>
 /// </summary>
 public static class StoredResultsWriter
@@ -36,6 +37,9 @@ public static class StoredResultsWriter
 
     private static readonly string[] Leading = ["file", "lot", "wafer", "die_x", "die_y", "model", "status"];
     private static readonly string[] Trailing = ["reduced_chi2", "transition_voltage_V", "warnings", "error"];
+
+    /// <summary>Columns after those of results.csv: who fitted the result and when.</summary>
+    public static ImmutableArray<string> WorkColumns { get; } = ["fitted_by", "fitted_at"];
     private static readonly string[] Suffixes = ["", "_stderr", "_lo", "_hi"];
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
@@ -59,7 +63,7 @@ public static class StoredResultsWriter
         return [.. keys];
     }
 
-    /// <summary>The CSV header for <paramref name="parameterKeys"/>.</summary>
+    /// <summary>The columns of results.csv for <paramref name="parameterKeys"/> (the CSV output adds <see cref="WorkColumns"/>).</summary>
     /// <param name="parameterKeys">Keys from <see cref="ParameterKeys"/>.</param>
     /// <returns>Column names in order.</returns>
     /// <exception cref="ArgumentNullException"><paramref name="parameterKeys"/> is null.</exception>
@@ -95,7 +99,8 @@ public static class StoredResultsWriter
         // One writer for results.csv everywhere: the rows go through the same formatter as batch's file.
         ArgumentNullException.ThrowIfNull(output);
         ArgumentNullException.ThrowIfNull(rows);
-        output.Write(ResultsCsv.Format([.. rows.Select(r => Lots.ResultRow.FromFitResult(r.Result))]));
+        output.Write(ResultsCsv.Format([.. rows.Select(r => Lots.ResultRow.FromFitResult(r.Result))], WorkColumns,
+            i => [rows[i].FittedBy ?? "", rows[i].FittedAt is DateTimeOffset t ? Time(t) : ""]));
     }
 
     /// <summary>Writes one JSON object per row, each on its own line.</summary>
@@ -157,6 +162,8 @@ public static class StoredResultsWriter
             w.WriteString("tool_version", row.Run.ToolVersion);
             StringOrNull(w, "host", row.Run.Host);
             StringOrNull(w, "stored_utc", row.StoredUtc?.ToUniversalTime().ToString("O", Inv));
+            StringOrNull(w, "fitted_by", row.FittedBy);
+            StringOrNull(w, "fitted_at", row.FittedAt is DateTimeOffset t ? Time(t) : null);
             w.WriteEndObject();
         }
         return Encoding.UTF8.GetString(buffer.WrittenSpan);
@@ -180,6 +187,8 @@ public static class StoredResultsWriter
     private static string OneLine(string s) => s.Contains('\n', StringComparison.Ordinal) || s.Contains('\r', StringComparison.Ordinal)
         ? s.Replace("\r\n", " ", StringComparison.Ordinal).Replace('\n', ' ').Replace('\r', ' ')
         : s;
+
+    private static string Time(DateTimeOffset t) => t.ToUniversalTime().ToString("O", Inv);
 
     private static string Number(double? x) => x is double v ? v.ToString("R", Inv) : "";
 

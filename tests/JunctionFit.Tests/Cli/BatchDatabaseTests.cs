@@ -96,7 +96,7 @@ public class BatchDatabaseTests
         using var dir = new TempFolder();
         string lot = "KM-P" + Guid.NewGuid().ToString("N")[..8];
         MakeFiles(dir.File("in"), lot);
-        string db = Environment.GetEnvironmentVariable(PostgresFactAttribute.Variable)!;
+        string db = PostgresFactAttribute.ConnectionString;
         KillMidRun(dir.File("in"), dir.File("out"), db, () =>
         {
             using var s = ResultStore.Open(db);

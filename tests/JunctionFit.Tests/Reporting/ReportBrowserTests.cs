@@ -4,7 +4,10 @@ using Xunit;
 
 namespace JunctionFit.Tests.Reporting;
 
-/// <summary>Runs only where Debian's chromium is installed (.ci/run installs it); elsewhere it is skipped, saying why.</summary>
+/// <summary>
+/// Runs only where Debian's chromium is installed (.ci/run installs it); elsewhere it is skipped, saying why — except under
+/// CI (<c>JUNCTIONFIT_CI=1</c>), where it runs and fails on the missing browser.
+/// </summary>
 public sealed class ChromiumFactAttribute : FactAttribute
 {
     public const string ChromiumPath = "/usr/bin/chromium";
@@ -13,7 +16,7 @@ public sealed class ChromiumFactAttribute : FactAttribute
     {
         if (!File.Exists(ChromiumPath))
         {
-            Skip = $"skipped: no headless browser at {ChromiumPath} (install Debian's chromium package; .ci/run does)";
+            Skip = TestEnvironment.SkipUnlessCi($"skipped: no headless browser at {ChromiumPath} (install Debian's chromium package; .ci/run does)");
         }
     }
 }
@@ -23,6 +26,8 @@ public class ReportBrowserTests
 {
     private static (string Stdout, int Code) Chromium(params string[] args)
     {
+        Assert.True(File.Exists(ChromiumFactAttribute.ChromiumPath),
+            $"no headless browser at {ChromiumFactAttribute.ChromiumPath}, and under {TestEnvironment.CiVariable}=1 no test may skip (install Debian's chromium package)");
         var info = new ProcessStartInfo(ChromiumFactAttribute.ChromiumPath) { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
         // Flags for a root sandbox without network (see the machine notes): no sandbox, no GPU, no background traffic.
         foreach (string a in new[] { "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking",

@@ -8,19 +8,34 @@ namespace JunctionFit.Tests.Storage;
 
 /// <summary>
 /// A fact that needs the PostgreSQL test server: skipped, saying why, when <c>JUNCTIONFIT_TEST_PG</c> is not set
-/// (.ci/postgres-setup.sh starts a server and prints the variable).
+/// (.ci/postgres-setup.sh starts a server and prints the variable) — except under CI (<c>JUNCTIONFIT_CI=1</c>), where it
+/// runs and fails on the missing server.
 /// </summary>
 public sealed class PostgresFactAttribute : FactAttribute
 {
     /// <summary>The environment variable with the test server's connection string.</summary>
     public const string Variable = "JUNCTIONFIT_TEST_PG";
 
+    private const string HowTo = "Run `eval \"$(.ci/postgres-setup.sh)\"` (installs and starts a local server) and test again.";
+
     public PostgresFactAttribute()
     {
         if (string.IsNullOrWhiteSpace(Environment.GetEnvironmentVariable(Variable)))
         {
-            Skip = $"PostgreSQL test skipped: the environment variable {Variable} is not set, so there is no test server. " +
-                   "Run `eval \"$(.ci/postgres-setup.sh)\"` (installs and starts a local server) and test again.";
+            Skip = TestEnvironment.SkipUnlessCi(
+                $"PostgreSQL test skipped: the environment variable {Variable} is not set, so there is no test server. " + HowTo);
+        }
+    }
+
+    /// <summary>The test server's connection string; fails the test, saying why, when there is none.</summary>
+    public static string ConnectionString
+    {
+        get
+        {
+            string? value = Environment.GetEnvironmentVariable(Variable);
+            Assert.False(string.IsNullOrWhiteSpace(value),
+                $"{Variable} is not set, so there is no PostgreSQL test server, and under {TestEnvironment.CiVariable}=1 no test may skip. {HowTo}");
+            return value!;
         }
     }
 }
@@ -60,8 +75,7 @@ public sealed class PostgresSchema : IDisposable
 
     public PostgresSchema()
     {
-        _admin = Environment.GetEnvironmentVariable(PostgresFactAttribute.Variable)
-            ?? throw new InvalidOperationException($"{PostgresFactAttribute.Variable} is not set");
+        _admin = PostgresFactAttribute.ConnectionString;
         Name = "jf_test_" + Guid.NewGuid().ToString("N")[..16];
         Exec($"CREATE SCHEMA {Name}");
         ConnectionString = new NpgsqlConnectionStringBuilder(_admin) { SearchPath = Name }.ConnectionString;

@@ -55,6 +55,24 @@ public sealed class DatabasePostgresTests : IDisposable
     public void StoreBatch_TwoProcessesAtOnce_LoseNoRow() => DatabaseStoreContract.TwoProcessesWritingAtOnce_LoseNoRow(Db, Open);
 
     [PostgresFact]
+    public void Claim_TwoWorkersAtOnce_NeverHoldTheSameFile() => DatabaseStoreContract.TwoClaimers_NeverHoldTheSameFile_AndTogetherCoverAll(Open);
+
+    [PostgresFact]
+    public void Claim_HeldByOther_TakenOverAfterLease() => DatabaseStoreContract.Claim_HeldByOther_NotGrantedUntilLeaseExpires_ThenTakenOver(Open);
+
+    [PostgresFact]
+    public void RenewClaims_BeforeLeaseEnds_KeepsClaim() => DatabaseStoreContract.RenewClaims_KeepsTheClaimPastTheFirstLease(Open);
+
+    [PostgresFact]
+    public void Claim_DoneFile_NotGrantedUnlessForced() => DatabaseStoreContract.DoneClaims_NotGrantedAgain_UnlessDoneBeforeTheForceTime(Open);
+
+    [PostgresFact]
+    public void ReleaseClaims_Released_OthersMayClaim() => DatabaseStoreContract.ReleaseClaims_OthersMayClaimAtOnce(Open);
+
+    [PostgresFact]
+    public void StoreBatch_FittedByAndAt_RoundTrip() => DatabaseStoreContract.FittedByAndAt_StoredAndReadBack_DefaultsToHostAndWriteTime(Open);
+
+    [PostgresFact]
     public void Open_Server_DescriptionHasNoPassword()
     {
         using var store = Open();

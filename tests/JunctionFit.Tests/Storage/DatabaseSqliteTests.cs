@@ -55,6 +55,24 @@ public sealed class DatabaseSqliteTests : IDisposable
     public void StoreBatch_TwoProcessesAtOnce_LoseNoRow() => DatabaseStoreContract.TwoProcessesWritingAtOnce_LoseNoRow(_db, Open);
 
     [Fact]
+    public void Claim_TwoWorkersAtOnce_NeverHoldTheSameFile() => DatabaseStoreContract.TwoClaimers_NeverHoldTheSameFile_AndTogetherCoverAll(Open);
+
+    [Fact]
+    public void Claim_HeldByOther_TakenOverAfterLease() => DatabaseStoreContract.Claim_HeldByOther_NotGrantedUntilLeaseExpires_ThenTakenOver(Open);
+
+    [Fact]
+    public void RenewClaims_BeforeLeaseEnds_KeepsClaim() => DatabaseStoreContract.RenewClaims_KeepsTheClaimPastTheFirstLease(Open);
+
+    [Fact]
+    public void Claim_DoneFile_NotGrantedUnlessForced() => DatabaseStoreContract.DoneClaims_NotGrantedAgain_UnlessDoneBeforeTheForceTime(Open);
+
+    [Fact]
+    public void ReleaseClaims_Released_OthersMayClaim() => DatabaseStoreContract.ReleaseClaims_OthersMayClaimAtOnce(Open);
+
+    [Fact]
+    public void StoreBatch_FittedByAndAt_RoundTrip() => DatabaseStoreContract.FittedByAndAt_StoredAndReadBack_DefaultsToHostAndWriteTime(Open);
+
+    [Fact]
     public void Open_NewFile_IsWalWithSchemaVersionTable()
     {
         using (var store = Open())
@@ -64,7 +82,7 @@ public sealed class DatabaseSqliteTests : IDisposable
         }
         using var c = Raw();
         Assert.Equal("wal", Scalar(c, "PRAGMA journal_mode"));
-        Assert.Equal("1", Scalar(c, "SELECT COUNT(*) FROM schema_version"));
+        Assert.Equal("2", Scalar(c, "SELECT COUNT(*) FROM schema_version")); // one row per migration step
         Assert.Equal(ResultStore.CurrentSchemaVersion.ToString(System.Globalization.CultureInfo.InvariantCulture), Scalar(c, "SELECT MAX(version) FROM schema_version"));
     }
 
@@ -120,6 +138,38 @@ public sealed class DatabaseSqliteTests : IDisposable
         Assert.True(File.Exists(odd));
         using var again = ResultStore.Open(odd);
         Assert.Equal(1, again.Count());
+    }
+
+    [Fact]
+    public void Open_Version1Database_MigratesKeepingRowsWithHostAsFittedBy()
+    {
+        // A database as version 1 left it: its DDL and one result row written by hand.
+        Directory.CreateDirectory(Path.GetDirectoryName(_db)!);
+        using (var c = Raw())
+        {
+            void Exec(string sql)
+            {
+                using var cmd = c.CreateCommand();
+                cmd.CommandText = sql;
+                cmd.ExecuteNonQuery();
+            }
+            Exec(Migrations.CreateVersionTable);
+            foreach (string sql in Migrations.All[0].Sqlite) Exec(sql);
+            Exec("INSERT INTO schema_version VALUES (1, '2025-03-14T10:00:00Z', 'v1')");
+            var key = DemoResults.Key(3);
+            string options = DemoResults.Options.Replace("'", "''", StringComparison.Ordinal);
+            Exec("INSERT INTO fit_result (file_sha256, model, options_hash, options_text, file_path, status, warnings_json, correlation_json, " +
+                 "parameter_count, run_id, run_started_utc, tool_version, host, stored_utc) VALUES " +
+                 $"('{key.FileSha256}', 'simmons', '{key.OptionsHash}', '{options}', 'KM-A01/W00/die_03_00.csv', 'failed', '[]', " +
+                 "'{\"keys\": [], \"matrix\": []}', 0, 'run-1', '2025-03-14T10:15:00.0000000Z', '0.9', 'probe-7', '2025-03-14T10:16:00.0000000Z')");
+        }
+        using var store = Open();
+        Assert.Equal(2, store.SchemaVersion);
+        var row = Assert.Single(store.Query());
+        Assert.Equal("probe-7", row.FittedBy);
+        Assert.Equal(new DateTimeOffset(2025, 3, 14, 10, 16, 0, TimeSpan.Zero), row.FittedAt);
+        Assert.Empty(store.Claims([row.Key]));
+        Assert.Empty(store.CheckConsistency());
     }
 
     private SqliteConnection Raw()

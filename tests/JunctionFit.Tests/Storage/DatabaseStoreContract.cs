@@ -310,4 +310,131 @@ internal static class DatabaseStoreContract
 
     private static double Phi(IResultStore store, int i)
         => store.Query().Single(r => r.Key == DemoResults.Key(i)).Result.Find("barrier_height_eV")!.Value;
+    private static WorkerIdentity Worker(string name) => WorkerIdentity.Current(name);
+
+    private static List<ClaimRequest> Requests(IEnumerable<int> dies)
+        => [.. dies.Select(i => new ClaimRequest(DemoResults.Key(i), DemoResults.Fit(i).SourcePath))];
+
+    public static void TwoClaimers_NeverHoldTheSameFile_AndTogetherCoverAll(Func<IResultStore> open)
+    {
+        const int Dies = 640; // 40 chunks of 16
+        using (open())
+        {
+        }
+        var workers = new[] { Worker("a"), Worker("b") };
+        var got = new[] { new List<ResultKey>(), new List<ResultKey>() };
+        using var start = new Barrier(2);
+        var threads = Enumerable.Range(0, 2).Select(w => new Thread(() =>
+        {
+            using var store = open();
+            start.SignalAndWait();
+            // Both walk the same list in the same order in chunks of 16, as batch workers do.
+            for (int first = 0; first < Dies; first += 16)
+            {
+                var granted = store.Claim(Requests(Enumerable.Range(first, 16)), workers[w], TimeSpan.FromMinutes(5));
+                got[w].AddRange(granted.Keys);
+                Assert.All(granted.Values, from => Assert.Null(from)); // long leases: nothing is taken over
+            }
+        })).ToList();
+        threads.ForEach(t => t.Start());
+        threads.ForEach(t => t.Join());
+        Assert.Empty(got[0].Intersect(got[1]));
+        Assert.Equal(Dies, got[0].Count + got[1].Count);
+        Assert.Equal(Dies, got[0].Union(got[1]).Count());
+        using var check = open();
+        var claims = check.Claims(Enumerable.Range(0, Dies).Select(DemoResults.Key));
+        Assert.Equal(Dies, claims.Count);
+        Assert.All(got[0], k => Assert.Equal(workers[0].ClaimedBy, claims[k].ClaimedBy));
+        Assert.All(got[1], k => Assert.Equal(workers[1].ClaimedBy, claims[k].ClaimedBy));
+        Assert.All(claims.Values, c => Assert.Equal(ClaimState.Claimed, c.State));
+    }
+
+    public static void Claim_HeldByOther_NotGrantedUntilLeaseExpires_ThenTakenOver(Func<IResultStore> open)
+    {
+        using var store = open();
+        var a = Worker("a");
+        var b = Worker("b");
+        var run = RunInfo.StartNew("1.0");
+        Assert.Equal(3, store.Claim(Requests([1, 2, 3]), a, TimeSpan.FromSeconds(1)).Count);
+        Assert.Equal(3, store.Claim(Requests([1, 2, 3]), a, TimeSpan.FromSeconds(1)).Count); // its own claims again: still granted
+        Assert.Empty(store.Claim(Requests([1, 2, 3]), b, TimeSpan.FromMinutes(1)));
+        Thread.Sleep(TimeSpan.FromSeconds(1.5)); // past a's lease
+        var taken = store.Claim(Requests([1, 2, 3, 4]), b, TimeSpan.FromMinutes(1));
+        Assert.Equal(4, taken.Count);
+        Assert.Equal(a.ClaimedBy, taken[DemoResults.Key(1)]); // taken over from a
+        Assert.Null(taken[DemoResults.Key(4)]); // a new claim
+        Assert.Equal(a.ClaimedBy, store.Claims([DemoResults.Key(2)])[DemoResults.Key(2)].TakenOverFrom);
+        // a comes back late: its claims are b's now, so a stores nothing and b's results count.
+        Assert.Empty(store.StoreClaimed([DemoResults.Row(1, run, variant: 1)], a));
+        Assert.Equal(0, store.Count());
+        var stored = store.StoreClaimed([DemoResults.Row(1, run) with { FittedBy = b.FittedBy }, DemoResults.Row(2, run) with { FittedBy = b.FittedBy }], b);
+        Assert.Equal(2, stored.Count);
+        Assert.Equal(2, store.Count());
+        Assert.All(store.Query(), r => Assert.Equal(b.FittedBy, r.FittedBy));
+        var claims = store.Claims([DemoResults.Key(1), DemoResults.Key(3)]);
+        Assert.Equal(ClaimState.Done, claims[DemoResults.Key(1)].State);
+        Assert.NotNull(claims[DemoResults.Key(1)].DoneUtc);
+        Assert.Equal(ClaimState.Claimed, claims[DemoResults.Key(3)].State);
+        Assert.Empty(store.CheckConsistency());
+    }
+
+    public static void RenewClaims_KeepsTheClaimPastTheFirstLease(Func<IResultStore> open)
+    {
+        using var store = open();
+        var a = Worker("a");
+        var b = Worker("b");
+        Assert.Equal(2, store.Claim(Requests([7, 8]), a, TimeSpan.FromSeconds(1)).Count);
+        Thread.Sleep(TimeSpan.FromSeconds(0.5));
+        Assert.Equal(2, store.RenewClaims(a, TimeSpan.FromSeconds(30)));
+        Thread.Sleep(TimeSpan.FromSeconds(1)); // past the first lease, well inside the renewed one
+        Assert.Empty(store.Claim(Requests([7, 8]), b, TimeSpan.FromSeconds(30)));
+        Assert.Equal(0, store.RenewClaims(b, TimeSpan.FromSeconds(30)));
+    }
+
+    public static void DoneClaims_NotGrantedAgain_UnlessDoneBeforeTheForceTime(Func<IResultStore> open)
+    {
+        using var store = open();
+        var a = Worker("a");
+        var b = Worker("b");
+        var run = RunInfo.StartNew("1.0");
+        store.Claim(Requests([10, 11]), a, TimeSpan.FromMinutes(1));
+        Assert.Equal(2, store.StoreClaimed([DemoResults.Row(10, run), DemoResults.Row(11, run)], a).Count);
+        Assert.Empty(store.Claim(Requests([10, 11]), b, TimeSpan.FromMinutes(1)));
+        Assert.Empty(store.Claim(Requests([10, 11]), a, TimeSpan.FromMinutes(1))); // done, even for the worker that did it
+        var doneAt = store.Claims([DemoResults.Key(10)])[DemoResults.Key(10)].DoneUtc!.Value;
+        Assert.Empty(store.Claim(Requests([10]), b, TimeSpan.FromMinutes(1), reclaimDoneBefore: doneAt));
+        Thread.Sleep(20);
+        var force = store.ClockUtc();
+        Assert.True(force > doneAt, "the database clock moves on");
+        Assert.Equal(2, store.Claim(Requests([10, 11]), b, TimeSpan.FromMinutes(1), reclaimDoneBefore: force).Count);
+        Assert.Equal(ClaimState.Claimed, store.Claims([DemoResults.Key(11)])[DemoResults.Key(11)].State);
+    }
+
+    public static void ReleaseClaims_OthersMayClaimAtOnce(Func<IResultStore> open)
+    {
+        using var store = open();
+        var a = Worker("a");
+        var b = Worker("b");
+        store.Claim(Requests([20, 21, 22]), a, TimeSpan.FromMinutes(10));
+        Assert.Equal(1, store.ReleaseClaims(a, [DemoResults.Key(21)]));
+        Assert.Equal([DemoResults.Key(21)], store.Claim(Requests([20, 21, 22]), b, TimeSpan.FromMinutes(10)).Keys);
+        Assert.Equal(2, store.ReleaseClaims(a));
+        Assert.Equal(2, store.Claim(Requests([20, 22]), b, TimeSpan.FromMinutes(10)).Count);
+        Assert.Empty(store.Claims([DemoResults.Key(99)]));
+    }
+
+    public static void FittedByAndAt_StoredAndReadBack_DefaultsToHostAndWriteTime(Func<IResultStore> open)
+    {
+        using var store = open();
+        var run = RunInfo.StartNew("1.0");
+        var at = new DateTimeOffset(2025, 3, 14, 10, 16, 30, 250, TimeSpan.Zero);
+        store.StoreBatch([DemoResults.Row(30, run) with { FittedBy = "w1@probe-7:4242", FittedAt = at }, DemoResults.Row(31, run)]);
+        var back = store.QueryKeys([DemoResults.Key(30), DemoResults.Key(31), DemoResults.Key(32)]).ToDictionary(r => r.Key);
+        Assert.Equal(2, back.Count);
+        Assert.Equal("w1@probe-7:4242", back[DemoResults.Key(30)].FittedBy);
+        Assert.Equal(at, back[DemoResults.Key(30)].FittedAt);
+        Assert.Equal(run.Host, back[DemoResults.Key(31)].FittedBy);
+        Assert.Equal(back[DemoResults.Key(31)].StoredUtc, back[DemoResults.Key(31)].FittedAt);
+        Assert.Equal(FitJsonFormatter.Format(DemoResults.Fit(30)), FitJsonFormatter.Format(back[DemoResults.Key(30)].Result));
+    }
 }

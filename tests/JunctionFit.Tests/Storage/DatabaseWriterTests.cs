@@ -13,7 +13,8 @@ public sealed class DatabaseWriterTests
     [Fact]
     public void FormatCsv_Rows_HasResultsCsvColumnsInOrder()
     {
-        var rows = new[] { DemoResults.Row(1, Run), DemoResults.Row(5, Run), DemoResults.Row(36, Run) };
+        var fittedAt = new DateTimeOffset(2025, 3, 14, 10, 16, 0, TimeSpan.Zero);
+        var rows = new[] { DemoResults.Row(1, Run) with { FittedBy = "probe-7:4242", FittedAt = fittedAt }, DemoResults.Row(5, Run), DemoResults.Row(36, Run) };
         string csv = StoredResultsWriter.FormatCsv(rows);
         var lines = csv.Split('\n');
         Assert.Equal(
@@ -23,7 +24,8 @@ public sealed class DatabaseWriterTests
             "area_m2,area_m2_stderr,area_m2_lo,area_m2_hi," +
             "mass_ratio,mass_ratio_stderr,mass_ratio_lo,mass_ratio_hi," +
             "series_resistance_ohm,series_resistance_ohm_stderr,series_resistance_ohm_lo,series_resistance_ohm_hi," +
-            "reduced_chi2,transition_voltage_V,warnings,error",
+            "reduced_chi2,transition_voltage_V,warnings,error," +
+            "fitted_by,fitted_at", // who fitted the result and when, after the columns of results.csv
             lines[0]);
         Assert.Equal(5, lines.Length); // header, three rows, and the empty text after the last line feed
         Assert.Equal("", lines[^1]);
@@ -32,9 +34,9 @@ public sealed class DatabaseWriterTests
         Assert.Equal(
             $"KM-A01/W00/die_01_00.csv,KM-A01,W00,1,0,simmons,ok,{R("barrier_height_eV", e => e.Value)},0.004,{R("barrier_height_eV", e => e.Lower95)},"
             + $"{R("barrier_height_eV", e => e.Upper95)},{R("thickness_nm", e => e.Value)},0.002,{R("thickness_nm", e => e.Lower95)},{R("thickness_nm", e => e.Upper95)},"
-            + "1E-10,,,,1,,,,,,,,1.03,0.801,,",
+            + "1E-10,,,,1,,,,,,,,1.03,0.801,,,probe-7:4242,2025-03-14T10:16:00.0000000+00:00",
             lines[1]);
-        Assert.EndsWith(",,,,,,no current above the noise floor; check the probe contact", lines[3], StringComparison.Ordinal);
+        Assert.EndsWith(",,,,,,no current above the noise floor; check the probe contact,,", lines[3], StringComparison.Ordinal);
         Assert.Contains(",failed,", lines[3], StringComparison.Ordinal);
     }
 
@@ -53,7 +55,7 @@ public sealed class DatabaseWriterTests
     {
         string csv = StoredResultsWriter.FormatCsv([]);
         Assert.StartsWith("file,lot,wafer,die_x,die_y,model,status,barrier_height_eV,", csv, StringComparison.Ordinal);
-        Assert.EndsWith("mass_ratio_hi,reduced_chi2,transition_voltage_V,warnings,error\n", csv, StringComparison.Ordinal);
+        Assert.EndsWith("mass_ratio_hi,reduced_chi2,transition_voltage_V,warnings,error,fitted_by,fitted_at\n", csv, StringComparison.Ordinal);
     }
 
     [Fact]
@@ -68,7 +70,7 @@ public sealed class DatabaseWriterTests
         var names = doc.RootElement.EnumerateObject().Select(p => p.Name).ToList();
         var csvColumns = StoredResultsWriter.Columns(StoredResultsWriter.ParameterKeys(rows));
         Assert.Equal(csvColumns, names.Take(csvColumns.Length));
-        Assert.Equal(["points_used", "points_masked", "file_sha256", "options_hash", "run_id", "run_started_utc", "tool_version", "host", "stored_utc"],
+        Assert.Equal(["points_used", "points_masked", "file_sha256", "options_hash", "run_id", "run_started_utc", "tool_version", "host", "stored_utc", "fitted_by", "fitted_at"],
             names.Skip(csvColumns.Length));
         Assert.Equal(2.0, doc.RootElement.GetProperty("barrier_height_eV").GetDouble());
         Assert.Equal(JsonValueKind.Null, doc.RootElement.GetProperty("area_m2_stderr").ValueKind);
