@@ -70,7 +70,7 @@ internal sealed record PreparedCurve(
         var directions = options.SweepDirection != 0 ? CurveDiagnostics.Directions(vAll) : null;
         var used = new bool[n];
         int usedCount = 0, wrongSign = 0, belowFloor = 0, atCompliance = 0, flagged = 0, notFinite = 0, zeroBias = 0;
-        int outside = 0, offGrid = 0, settled = 0, inWindow = 0, wrongSignHighBias = 0;
+        int outside = 0, offGrid = 0, settled = 0, inWindow = 0, wrongSignHighBias = 0, zeroBiasResidue = 0;
         double maxAbsBias = 0;
         foreach (double v in vAll) if (double.IsFinite(v)) maxAbsBias = Math.Max(maxAbsBias, Math.Abs(v));
         for (int i = 0; i < n; i++)
@@ -78,7 +78,7 @@ internal sealed record PreparedCurve(
             double v = vAll[i], c = iAll[i];
             bool ok = false;
             if (!double.IsFinite(v) || !double.IsFinite(c)) notFinite++;
-            else if (NoiseFloorEstimator.IsZeroBias(v, step)) zeroBias++;
+            else if (NoiseFloorEstimator.IsZeroBias(v, step)) { zeroBias++; if (v != 0) zeroBiasResidue++; }
             else if (v < lowV || v > highV || (directions is not null && directions[i] != options.SweepDirection)) outside++;
             else if (Array.IndexOf(nearZeroFloor.Indices, i) >= 0) { offGrid++; inWindow++; }
             else if (curve.ImportMask.Length == n && curve.ImportMask[i]) { flagged++; inWindow++; }
@@ -96,7 +96,9 @@ internal sealed record PreparedCurve(
             if (ok) usedCount++;
         }
         var notes = new List<string>();
-        if (zeroBias > 0) notes.Add($"{zeroBias} at zero bias (|V| ≤ {NoiseFloorEstimator.ZeroBiasStepFraction:0e0} of the {step:0.###} V step; their currents measure the floor)");
+        // A reading at exactly 0 V is left out silently (it carries no information on a barrier); a bias at rounding level
+        // (a float-stepped 0 V) is worth a word.
+        if (zeroBiasResidue > 0) notes.Add($"{zeroBias} at zero bias (|V| ≤ {NoiseFloorEstimator.ZeroBiasStepFraction:0e0} of the {step:0.###} V step; their currents measure the floor)");
         if (offGrid > 0) notes.Add($"{offGrid} off the sweep grid near zero bias with a current at the instrument floor (conductance off its neighbours' by more than {NearZeroConductanceFactor:0}x)");
         if (outside > 0) notes.Add($"{outside} outside the bias window or sweep direction");
         if (wrongSign > 0) notes.Add($"{wrongSign} with zero current or current of the wrong sign for its bias (offset or noise)");
