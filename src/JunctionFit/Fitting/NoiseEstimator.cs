@@ -66,8 +66,7 @@ public static class NoiseEstimator
             }
         }
         if (count < MinimumTriples) return null;
-        SortKernels.Sort(scaled.AsSpan(0, count));
-        double median = count % 2 == 1 ? scaled[count / 2] : 0.5 * (scaled[count / 2 - 1] + scaled[count / 2]);
+        double median = SortKernels.Median(scaled.AsSpan(0, count));
         return Math.Max(1.4826 * median, SmallestEstimate);
     }
 

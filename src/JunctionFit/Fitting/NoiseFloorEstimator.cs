@@ -127,8 +127,8 @@ public static class NoiseFloorEstimator
         var abs = new double[nonZero];
         int k0 = 0;
         foreach (double c in currentA) if (c != 0 && double.IsFinite(c)) abs[k0++] = Math.Abs(c);
-        SortKernels.Sort(abs);
         int low = Math.Max(8, nonZero / 4);
+        SortKernels.SortSmallest(abs, low); // only the lowest quarter is read below
         double delta = double.PositiveInfinity;
         for (int i = 1; i < low; i++)
         {

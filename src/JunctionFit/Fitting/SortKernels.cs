@@ -34,12 +34,77 @@ internal static class SortKernels
         if (rest.Length > 1) QuickSort(rest, 2 * Log2(rest.Length));
     }
 
-    /// <summary>The median (mean of the two middle values for an even count); reorders <paramref name="values"/>.</summary>
+    /// <summary>
+    /// The median (mean of the two middle values for an even count), as from the sorted values; reorders
+    /// <paramref name="values"/>. O(n) by selection.
+    /// </summary>
     public static double Median(Span<double> values)
     {
-        Sort(values);
         int n = values.Length;
-        return n % 2 == 1 ? values[n / 2] : 0.5 * (values[n / 2 - 1] + values[n / 2]);
+        if (n == 0) throw new ArgumentException("no values", nameof(values));
+        Select(values, n / 2);
+        if (n % 2 == 1) return values[n / 2];
+        // The largest of the lower half is the value a sort puts just below the middle (NaN only if the half is all NaN).
+        double below = double.NaN;
+        for (int i = 0; i < n / 2; i++)
+        {
+            if (!double.IsNaN(values[i]) && !(values[i] <= below)) below = values[i];
+        }
+        return 0.5 * (below + values[n / 2]);
+    }
+
+    /// <summary>Puts the <paramref name="count"/> smallest values, sorted, first (the rest in no order).</summary>
+    public static void SortSmallest(Span<double> values, int count)
+    {
+        if (count <= 0) return;
+        if (count < values.Length) Select(values, count - 1);
+        Sort(values[..Math.Min(count, values.Length)]);
+    }
+
+    /// <summary>
+    /// Reorders <paramref name="values"/> so that element <paramref name="k"/> is the one a sort would put there, with no
+    /// larger value before it and no smaller one after it (NaN counts as the smallest, as in the sort).
+    /// </summary>
+    public static void Select(Span<double> values, int k)
+    {
+        int nan = 0;
+        for (int i = 0; i < values.Length; i++)
+        {
+            if (double.IsNaN(values[i]))
+            {
+                (values[i], values[nan]) = (values[nan], values[i]);
+                nan++;
+            }
+        }
+        if (k < nan) return;
+        Span<double> a = values[nan..];
+        k -= nan;
+        int lo = 0, hi = a.Length - 1;
+        while (hi - lo > InsertionLimit)
+        {
+            int mid = lo + (hi - lo) / 2;
+            if (a[mid] < a[lo]) (a[mid], a[lo]) = (a[lo], a[mid]);
+            if (a[hi] < a[lo]) (a[hi], a[lo]) = (a[lo], a[hi]);
+            if (a[hi] < a[mid]) (a[hi], a[mid]) = (a[mid], a[hi]);
+            double pivot = a[mid];
+            int i = lo, j = hi;
+            while (i <= j)
+            {
+                while (a[i] < pivot) i++;
+                while (a[j] > pivot) j--;
+                if (i <= j)
+                {
+                    (a[i], a[j]) = (a[j], a[i]);
+                    i++;
+                    j--;
+                }
+            }
+            // [lo, j] ≤ pivot, (j, i) = pivot, [i, hi] ≥ pivot
+            if (k <= j) hi = j;
+            else if (k >= i) lo = i;
+            else return;
+        }
+        InsertionSort(a[lo..(hi + 1)]);
     }
 
     /// <summary>True when every value is larger than the one before it (no NaN, no ties).</summary>

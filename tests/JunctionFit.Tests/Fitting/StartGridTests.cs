@@ -101,6 +101,21 @@ public class StartGridTests
     }
 
     [Fact]
+    public void SortSmallest_RandomValues_PrefixSameAsArraySort()
+    {
+        Gen.Select(Gen.OneOf(Gen.Double[0, 10], Gen.Int[0, 4].Select(k => (double)k), Gen.Const(double.NaN)).Array[1, 250], Gen.Double[0, 1])
+            .Sample((a, fraction) =>
+            {
+                int count = Math.Max(1, (int)(fraction * a.Length));
+                var expected = (double[])a.Clone();
+                Array.Sort(expected);
+                var actual = (double[])a.Clone();
+                SortKernels.SortSmallest(actual, count);
+                Assert.Equal(expected[..count], actual[..count]);
+            }, iter: 500);
+    }
+
+    [Fact]
     public void SortWithItems_AnyKeys_SameAsArraySort()
     {
         Gen.Select(Gen.Double[-5, 5].Array[0, 120], Gen.Int[0, 2]).Sample((a, shape) =>
