@@ -18,7 +18,7 @@ namespace JunctionFit.Fitting;
 /// interval stays positive; (5) quality checks (runs test on the residual signs, reduced χ² when the noise is known),
 /// validity and identifiability warnings.
 /// </para>
-/// Pure computation; thread-safe (no shared mutable state).
+/// Pure computation; thread-safe (the only shared state is a cache of Student-t quantiles, each written once with its one value).
 /// </summary>
 public static class JunctionFitter
 {
@@ -245,7 +245,7 @@ public static class JunctionFitter
         var covFlat = cov is null ? [] : noiseKnown ? cov.UnscaledCovariance : cov.ScaledCovariance;
         double CovX(int a, int b) => covFlat[a * nFree + b];
 
-        double tQuantile = dof > 0 ? StudentT.InvCDF(0.0, 1.0, dof, 0.975) : double.NaN;
+        double tQuantile = dof > 0 ? StudentT975(dof) : double.NaN;
         var estimates = ImmutableArray.CreateBuilder<ParameterEstimate>(p);
         for (int k = 0; k < p; k++)
         {
@@ -550,6 +550,28 @@ public static class JunctionFitter
             DieX = curve.DieX,
             DieY = curve.DieY,
         };
+    }
+
+    // The 97.5 % Student-t quantile per degrees of freedom, computed once (a root search in MathNet): the same value each time.
+    private static readonly double[] StudentT975Cache = CreateNaNs(4096);
+
+    private static double[] CreateNaNs(int n)
+    {
+        var a = new double[n];
+        Array.Fill(a, double.NaN);
+        return a;
+    }
+
+    private static double StudentT975(int dof)
+    {
+        if (dof >= StudentT975Cache.Length) return StudentT.InvCDF(0.0, 1.0, dof, 0.975);
+        double q = Volatile.Read(ref StudentT975Cache[dof]);
+        if (double.IsNaN(q))
+        {
+            q = StudentT.InvCDF(0.0, 1.0, dof, 0.975);
+            Volatile.Write(ref StudentT975Cache[dof], q);
+        }
+        return q;
     }
 
     private static bool isFreeArea(JunctionCurrentModel model, int[] freeIndex) => Array.IndexOf(freeIndex, model.AreaIndex) >= 0;
