@@ -29,16 +29,26 @@ internal static class StageProfile
         var results = new Results.FitResult[files.Length];
         double Time(string label, Action<int> body, double floorUs = 0)
         {
-            for (int k = 0; k < Math.Min(files.Length, 200); k++) body(k); // warm up
+            // Warm up, give the background tier-1 compilation time, warm up again: the figures are of optimised code.
+            for (int k = 0; k < files.Length; k++) body(k);
+            Thread.Sleep(500);
+            for (int k = 0; k < files.Length; k++) body(k);
+            long a0 = GC.GetAllocatedBytesForCurrentThread();
             long t0 = Stopwatch.GetTimestamp();
             for (int p = 0; p < passes; p++)
             for (int k = 0; k < files.Length; k++) body(k);
             double us = Stopwatch.GetElapsedTime(t0).TotalMicroseconds / (passes * files.Length);
-            Console.WriteLine(floorUs > 0 ? $"  {label,-46} {us,9:F1} us  ({us / floorUs:F1}x the floor)" : $"  {label,-46} {us,9:F1} us");
+            double kb = (GC.GetAllocatedBytesForCurrentThread() - a0) / 1024.0 / (passes * files.Length);
+            Console.WriteLine(floorUs > 0 ? $"  {label,-46} {us,9:F1} us  {kb,7:F1} KB  ({us / floorUs:F1}x the floor)" : $"  {label,-46} {us,9:F1} us  {kb,7:F1} KB");
             return us;
         }
         Console.WriteLine($"{files.Length} files from {folder}, {passes} passes, per curve:");
         Time("read: decode + parse (from bytes in memory)", k => curves[k] = IvFileReader.ParseBytes(bytes[k], files[k], files[k], IvReadOptions.Default).Curve);
+        var texts = bytes.Select(b => TextDecoder.Decode(b, out _)).ToArray();
+        Time("  longest line", k => TextDecoder.LongestByteRun(bytes[k]));
+        Time("  decode", k => TextDecoder.Decode(bytes[k], out _));
+        Time("  split lines", k => LineTable.Build(texts[k], IvReadOptions.Default.MaxLineLength));
+        Time("  parse text", k => IvTableParser.Parse(texts[k], files[k], files[k], IvReadOptions.Default, "UTF-8"));
 
         // The floor: one residual and one Jacobian evaluation of the area-known problem at the optimum, times the
         // iterations the fit reports.
@@ -61,18 +71,24 @@ internal static class StageProfile
 
         Time("fit: JunctionFitter.Fit (everything)", k => results[k] = JunctionFitter.Fit(curves[k], model, options), floorUs);
         Time("  masks, ln|I|, noise estimate (PreparedCurve)", k => PreparedCurve.From(curves[k], options), floorUs);
+        Time("    typical step", k => NoiseFloorEstimator.TypicalStepV(curves[k].VoltageV.AsSpan()), floorUs);
+        Time("    noise floor estimate", k => NoiseFloorEstimator.Estimate(curves[k].VoltageV.AsSpan(), curves[k].CurrentA.AsSpan(), default), floorUs);
+        Time("    settling points", k => CurveDiagnostics.SettlingPoints(curves[k].VoltageV.AsSpan(), curves[k].CurrentA.AsSpan(), 0.012), floorUs);
         var prepared = curves.Select(c => PreparedCurve.From(c, options)).ToArray();
+        Time("    relative noise (one of two)", k => NoiseEstimator.RelativeNoise(prepared[k].VoltageV, prepared[k].LogAbsCurrent), floorUs);
+        double[] template = [1.0 * PhysicalConstants.JoulePerElectronVolt, 1e-9, 1.0, areaUm2 * 1e-12];
         bool[] free = [true, true, false, false];
-        Time("  start grid (81 cells on 32 points)", k => JunctionFitter.GridStarts(model, theta, free, prepared[k].VoltageV, prepared[k].LogAbsCurrent, prepared[k].InverseSigma, 2), floorUs);
+        var starts = new List<double[]>[files.Length];
+        Time("  start grid (GridStarts)", k => starts[k] = JunctionFitter.GridStarts(model, template, free, prepared[k].VoltageV, prepared[k].LogAbsCurrent, prepared[k].InverseSigma, 2), floorUs);
+        var solutions = new LeastSquaresSolution[files.Length];
         Time("  one solve from the best grid cell", k =>
         {
-            var d = prepared[k];
-            var start = JunctionFitter.GridStarts(model, theta, free, d.VoltageV, d.LogAbsCurrent, d.InverseSigma, 1)[0];
-            var pr = new LogCurrentProblem(model, d.VoltageV, d.LogAbsCurrent, d.InverseSigma, [0, 1], start);
-            LevenbergMarquardtSolver.Minimize(pr, [Math.Log(start[0]), Math.Log(start[1])], options.Solver);
+            var pk = prepared[k];
+            var prob = new LogCurrentProblem(model, pk.VoltageV, pk.LogAbsCurrent, pk.InverseSigma, [0, 1], template);
+            double[] s0 = starts[k][0];
+            solutions[k] = LevenbergMarquardtSolver.Minimize(prob, [ParameterTransforms.ToSolver(model.Parameters[0], s0[0]), ParameterTransforms.ToSolver(model.Parameters[1], s0[1])], options.Solver);
         }, floorUs);
-        Time("  noise estimate alone", k => NoiseEstimator.RelativeNoise(prepared[k].VoltageV, prepared[k].LogAbsCurrent), floorUs);
-        Time("  noise floor estimate alone", k => NoiseFloorEstimator.Estimate(curves[k].VoltageV.AsSpan(), curves[k].CurrentA.AsSpan(), []), floorUs);
+        Time("  covariance", k => LinearizedCovariance.Compute(solutions[k]), floorUs);
         Time("  transition voltage", k => TransitionVoltage.Compute(curves[k].VoltageV.AsSpan(), curves[k].CurrentA.AsSpan()), floorUs);
         Time("json: FitJsonFormatter.Format", k => FitJsonFormatter.Format(results[k]), floorUs);
     }

@@ -15,6 +15,9 @@ internal readonly record struct CurveOutcome(string Path, FitResult Result, stri
 
     /// <summary>The fit plot, rendered on the worker thread; null when none was asked for.</summary>
     public byte[]? PlotPng { get; init; }
+
+    /// <summary>The result's JSON line, formatted on the worker thread; null when none was asked for.</summary>
+    public string? JsonLine { get; init; }
 }
 
 /// <summary>

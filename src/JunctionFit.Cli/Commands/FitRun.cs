@@ -47,7 +47,12 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
             plotFiles.AddRange(missingResults.Select(_ => (string?)null));
         }
         var usedPlotNames = new HashSet<string>(StringComparer.Ordinal);
-        CurvePipeline.Run(files, readOptions, plan, jobs, (_, outcome) =>
+        // Read, fit and (with --json) format on the workers; write in input order on this thread.
+        CurvePipeline.Run(files.Count, k =>
+        {
+            var outcome = CurvePipeline.Process(files[k], readOptions, plan, context.Error);
+            return json ? outcome with { JsonLine = FitJsonFormatter.Format(WithCv(outcome.Result)) } : outcome;
+        }, jobs, (_, outcome) =>
         {
             if (outcome.ReadError is not null)
             {
@@ -58,14 +63,14 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
             {
                 fitted++;
             }
-            var result = CapacitanceVoltage is null ? outcome.Result : outcome.Result with { CapacitanceVoltage = CapacitanceVoltage };
+            var result = WithCv(outcome.Result);
             if (result.Status != FitStatus.Ok) notOk++;
             if (result.Status == FitStatus.Failed) failed++;
             if (result.Status == FitStatus.Failed && outcome.ReadError is null)
             {
                 context.Error.WriteLine($"{result.SourcePath}:0: fit failed: {result.Error}");
             }
-            if (json) context.Out.WriteLine(FitJsonFormatter.Format(result));
+            if (json) context.Out.WriteLine(outcome.JsonLine ?? FitJsonFormatter.Format(result));
             string? plot = null;
             if (plotDir is not null && result.Curve is not null)
             {
@@ -78,7 +83,7 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
                 summaries.Add(result with { Curve = null });
                 plotFiles.Add(plot);
             }
-        }, context.Error);
+        });
         FailedCount = failed;
 
         if (!json)
@@ -115,6 +120,8 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
         if (fitted == 0) return ExitCodes.UsageOrInput;
         return notOk == 0 && unreadable == 0 ? ExitCodes.Success : ExitCodes.SomeFailed;
     }
+
+    private FitResult WithCv(FitResult result) => CapacitanceVoltage is null ? result : result with { CapacitanceVoltage = CapacitanceVoltage };
 
     /// <summary>Number of results with status failed in the last run.</summary>
     public int FailedCount { get; private set; }

@@ -61,20 +61,22 @@ internal static class CurveDiagnostics
         return result is null ? [] : result.ToArray();
     }
 
+    /// <summary>Point k repeats point i: the same bias within tol, a finite current of the same sign.</summary>
+    private static bool IsRepeat(ReadOnlySpan<double> v, ReadOnlySpan<double> c, int i, int k, double tol)
+        => Math.Abs(v[k] - v[i]) <= tol && c[k] != 0 && Math.Sign(c[k]) == Math.Sign(c[i]) && double.IsFinite(c[k]);
+
     /// <summary>|ln|I_i| − ln|I_k||, k the nearest other point in time at the same bias with a same-sign current; NaN if none.</summary>
     private static double RepeatDiscrepancy(ReadOnlySpan<double> v, ReadOnlySpan<double> c, int i, double tol)
     {
         if (c[i] == 0 || !double.IsFinite(c[i])) return double.NaN;
-        for (int offset = 1; offset <= RepeatSearchSpan; offset++)
+        // Nearest first, the later point before the earlier at equal distance; the search stops where both sides run out.
+        int span = Math.Min(RepeatSearchSpan, Math.Max(i, v.Length - 1 - i));
+        for (int offset = 1; offset <= span; offset++)
         {
-            foreach (int k in (ReadOnlySpan<int>)[i + offset, i - offset])
-            {
-                if (k < 0 || k >= v.Length) continue;
-                if (Math.Abs(v[k] - v[i]) <= tol && c[k] != 0 && Math.Sign(c[k]) == Math.Sign(c[i]) && double.IsFinite(c[k]))
-                {
-                    return Math.Abs(Math.Log(Math.Abs(c[i] / c[k])));
-                }
-            }
+            int k = i + offset;
+            if (k < v.Length && IsRepeat(v, c, i, k, tol)) return Math.Abs(Math.Log(Math.Abs(c[i] / c[k])));
+            k = i - offset;
+            if (k >= 0 && IsRepeat(v, c, i, k, tol)) return Math.Abs(Math.Log(Math.Abs(c[i] / c[k])));
         }
         return double.NaN;
     }

@@ -18,7 +18,7 @@ namespace JunctionFit.Fitting;
 /// interval stays positive; (5) quality checks (runs test on the residual signs, reduced χ² when the noise is known),
 /// validity and identifiability warnings.
 /// </para>
-/// Pure computation; thread-safe (no shared mutable state).
+/// Pure computation; thread-safe (the only shared state is a cache of Student-t quantiles, each written once with its one value).
 /// </summary>
 public static class JunctionFitter
 {
@@ -245,7 +245,7 @@ public static class JunctionFitter
         var covFlat = cov is null ? [] : noiseKnown ? cov.UnscaledCovariance : cov.ScaledCovariance;
         double CovX(int a, int b) => covFlat[a * nFree + b];
 
-        double tQuantile = dof > 0 ? StudentT.InvCDF(0.0, 1.0, dof, 0.975) : double.NaN;
+        double tQuantile = dof > 0 ? StudentT975(dof) : double.NaN;
         var estimates = ImmutableArray.CreateBuilder<ParameterEstimate>(p);
         for (int k = 0; k < p; k++)
         {
@@ -552,6 +552,28 @@ public static class JunctionFitter
         };
     }
 
+    // The 97.5 % Student-t quantile per degrees of freedom, computed once (a root search in MathNet): the same value each time.
+    private static readonly double[] StudentT975Cache = CreateNaNs(4096);
+
+    private static double[] CreateNaNs(int n)
+    {
+        var a = new double[n];
+        Array.Fill(a, double.NaN);
+        return a;
+    }
+
+    private static double StudentT975(int dof)
+    {
+        if (dof >= StudentT975Cache.Length) return StudentT.InvCDF(0.0, 1.0, dof, 0.975);
+        double q = Volatile.Read(ref StudentT975Cache[dof]);
+        if (double.IsNaN(q))
+        {
+            q = StudentT.InvCDF(0.0, 1.0, dof, 0.975);
+            Volatile.Write(ref StudentT975Cache[dof], q);
+        }
+        return q;
+    }
+
     private static bool isFreeArea(JunctionCurrentModel model, int[] freeIndex) => Array.IndexOf(freeIndex, model.AreaIndex) >= 0;
 
     private static string FormatOhm(double r) => r >= 1e6 ? $"{r / 1e6:G3} MΩ" : r >= 1e3 ? $"{r / 1e3:G3} kΩ" : $"{r:G3} Ω";
@@ -630,7 +652,7 @@ public static class JunctionFitter
         var order = new double[residuals.Length];
         var res = residuals.ToArray();
         for (int i = 0, u = 0; i < used.Length; i++) if (used[i]) order[u++] = allVoltageV[i];
-        Array.Sort(order, res);
+        SortKernels.SortWithItems(order, res);
         return RunsTestZ(res);
     }
 
@@ -657,82 +679,259 @@ public static class JunctionFitter
     /// Log-spaced grid over φ ∈ [0.2, 6] eV and d ∈ [0.3, 8] nm (only the free ones), evaluated on at most
     /// <see cref="GridPoints"/> points spread evenly over the curve, with the area profiled out in closed form when it is
     /// free. Returns the best <paramref name="count"/> grid points that are not grid neighbours of a better one.
+    /// <para>
+    /// With the area fixed and one or two starts wanted, a cell is abandoned as soon as its partial cost (a sum of
+    /// non-negative terms, so never more than its full cost) exceeds what is needed for it to be picked: with one start,
+    /// the cost of a finished cell; with two, the larger cost of two finished cells at least three cells apart (no cell
+    /// neighbours both, so two picks come before any cell costlier than both). The finished cells' costs are the same sums
+    /// in the same order as <see cref="GridStartsExhaustive"/>, so the picks are the same; should two candidate costs tie
+    /// exactly, the abandoned cells are finished and the exhaustive ranking decides.
+    /// </para>
     /// </summary>
     internal static List<double[]> GridStarts(JunctionCurrentModel model, double[] template, bool[] isFree,
         double[] vAll, double[] yAll, double[] invSigmaAll, int count)
     {
-        int phiIndex = model.IndexOf(StandardParameters.BarrierHeight.Key);
-        int dIndex = model.IndexOf(StandardParameters.Thickness.Key);
-        int areaIndex = model.AreaIndex;
-        bool phiFree = phiIndex >= 0 && isFree[phiIndex];
-        bool dFree = dIndex >= 0 && isFree[dIndex];
-        bool areaFree = isFree[areaIndex];
-        int nPhi = phiFree ? GridSize : 1, nD = dFree ? GridSize : 1;
+        var grid = new StartGrid(model, template, isFree, vAll, yAll, invSigmaAll);
+        if (grid.AreaFree || count > 2 || grid.Cells < 2) return grid.Exhaustive(count);
 
-        int m = Math.Min(GridPoints, vAll.Length);
-        Span<double> v = stackalloc double[m];
-        Span<double> y = stackalloc double[m];
-        Span<double> w = stackalloc double[m];
-        Span<double> r = stackalloc double[m];
-        for (int i = 0; i < m; i++)
-        {
-            int src = (int)((long)i * (vAll.Length - 1) / Math.Max(m - 1, 1));
-            v[i] = vAll[src];
-            y[i] = yAll[src];
-            w[i] = invSigmaAll[src] * invSigmaAll[src];
-        }
-        double sw = 0;
-        for (int i = 0; i < m; i++) sw += w[i];
+        int cells = grid.Cells;
+        var costs = new double[cells];
+        var done = new bool[cells];
+        var finished = new int[cells];
+        int finishedCount = 0;
+        double threshold = double.PositiveInfinity;
+        bool anyAbandoned = false;
 
-        var costs = new double[nPhi * nD];
-        var logAreas = new double[nPhi * nD];
-        var theta = (double[])template.Clone();
-        double fixedLogArea = Math.Log(template[areaIndex]);
-        if (areaFree) theta[areaIndex] = 1.0;
-        for (int a = 0; a < nPhi; a++)
+        void Finish(int cell, double cost)
         {
-            if (phiFree) theta[phiIndex] = GridPhi(a);
-            for (int b = 0; b < nD; b++)
+            costs[cell] = cost;
+            done[cell] = true;
+            if (count == 1)
             {
-                if (dFree) theta[dIndex] = GridThickness(b);
-                double swr = 0;
-                for (int i = 0; i < m; i++)
+                threshold = Math.Min(threshold, cost);
+            }
+            else if (cost < threshold)
+            {
+                int row = grid.Row(cell), column = grid.Column(cell);
+                for (int k = 0; k < finishedCount; k++)
                 {
-                    r[i] = y[i] - LogCurrentProblem.LogModel(model.Current(v[i], theta), v[i]);
-                    swr += w[i] * r[i];
+                    int other = finished[k];
+                    if (Math.Abs(grid.Row(other) - row) >= 3 || Math.Abs(grid.Column(other) - column) >= 3)
+                    {
+                        threshold = Math.Min(threshold, Math.Max(cost, costs[other]));
+                    }
                 }
-                double c = areaFree ? swr / sw : 0.0;
-                double cost = 0;
-                for (int i = 0; i < m; i++) cost += w[i] * (r[i] - c) * (r[i] - c);
-                costs[a * nD + b] = double.IsFinite(cost) ? cost : double.PositiveInfinity;
-                logAreas[a * nD + b] = areaFree ? c : fixedLogArea;
+            }
+            finished[finishedCount++] = cell;
+        }
+
+        // Seeds first (cells 1, 4, 7 along each free axis: pairwise three apart), so that the threshold is low early.
+        for (int cell = 0; cell < cells; cell++)
+        {
+            if (grid.IsSeed(cell)) Finish(cell, grid.Cost(cell, double.PositiveInfinity));
+        }
+        for (int cell = 0; cell < cells; cell++)
+        {
+            if (done[cell]) continue;
+            double cost = grid.Cost(cell, threshold);
+            if (double.IsNaN(cost))
+            {
+                anyAbandoned = true;
+                continue;
+            }
+            Finish(cell, cost);
+        }
+        if (!anyAbandoned) return grid.Pick(costs, count);
+
+        // The finished cells in ascending cost (insertion sort: a few dozen), then the greedy pick of the exhaustive ranking.
+        var sorted = finished.AsSpan(0, finishedCount).ToArray();
+        for (int i = 1; i < sorted.Length; i++)
+        {
+            int x = sorted[i];
+            int j = i - 1;
+            while (j >= 0 && costs[sorted[j]] > costs[x])
+            {
+                sorted[j + 1] = sorted[j];
+                j--;
+            }
+            sorted[j + 1] = x;
+        }
+        var chosen = new List<int>(count);
+        int last = -1;
+        for (int i = 0; i < sorted.Length && chosen.Count < count; i++)
+        {
+            if (!grid.NeighboursAny(sorted[i], chosen))
+            {
+                chosen.Add(sorted[i]);
+                last = i;
             }
         }
-        var order = new int[costs.Length];
-        for (int k = 0; k < order.Length; k++) order[k] = k;
-        Array.Sort((double[])costs.Clone(), order);
-        var chosen = new List<int>();
-        foreach (int cell in order)
+        bool unique = chosen.Count == count && double.IsFinite(costs[sorted[last]]);
+        for (int i = 0; unique && i <= last && i + 1 < sorted.Length; i++)
         {
-            if (chosen.Count >= count) break;
-            int ca = cell / nD, cb = cell % nD;
-            bool neighbour = false;
+            unique = costs[sorted[i]] != costs[sorted[i + 1]];
+        }
+        if (!unique)
+        {
+            for (int cell = 0; cell < cells; cell++)
+            {
+                if (!done[cell]) costs[cell] = grid.Cost(cell, double.PositiveInfinity);
+            }
+            return grid.Pick(costs, count);
+        }
+        return grid.Starts(chosen);
+    }
+
+    /// <summary>The start grid of <see cref="GridStarts"/>, every cell evaluated on every grid point (the reference ranking).</summary>
+    internal static List<double[]> GridStartsExhaustive(JunctionCurrentModel model, double[] template, bool[] isFree,
+        double[] vAll, double[] yAll, double[] invSigmaAll, int count)
+        => new StartGrid(model, template, isFree, vAll, yAll, invSigmaAll).Exhaustive(count);
+
+    /// <summary>The cells, points and costs of the start grid.</summary>
+    private sealed class StartGrid
+    {
+        private readonly JunctionCurrentModel _model;
+        private readonly double[] _template;
+        private readonly double[] _theta;
+        private readonly double[] _v, _y, _w;
+        private readonly double[] _r;
+        private readonly double[] _logAreas;
+        private readonly int[] _rows, _columns;
+        private readonly int _phiIndex, _dIndex, _areaIndex, _nPhi, _nD, _m;
+        private readonly bool _phiFree, _dFree;
+        private readonly double _sw, _fixedLogArea;
+
+        public StartGrid(JunctionCurrentModel model, double[] template, bool[] isFree, double[] vAll, double[] yAll, double[] invSigmaAll)
+        {
+            _model = model;
+            _template = template;
+            _phiIndex = model.IndexOf(StandardParameters.BarrierHeight.Key);
+            _dIndex = model.IndexOf(StandardParameters.Thickness.Key);
+            _areaIndex = model.AreaIndex;
+            _phiFree = _phiIndex >= 0 && isFree[_phiIndex];
+            _dFree = _dIndex >= 0 && isFree[_dIndex];
+            AreaFree = isFree[_areaIndex];
+            _nPhi = _phiFree ? GridSize : 1;
+            _nD = _dFree ? GridSize : 1;
+            _m = Math.Min(GridPoints, vAll.Length);
+            _v = new double[_m];
+            _y = new double[_m];
+            _w = new double[_m];
+            _r = new double[_m];
+            for (int i = 0; i < _m; i++)
+            {
+                int src = (int)((long)i * (vAll.Length - 1) / Math.Max(_m - 1, 1));
+                _v[i] = vAll[src];
+                _y[i] = yAll[src];
+                _w[i] = invSigmaAll[src] * invSigmaAll[src];
+            }
+            for (int i = 0; i < _m; i++) _sw += _w[i];
+            _logAreas = new double[_nPhi * _nD];
+            _rows = new int[_nPhi * _nD];
+            _columns = new int[_nPhi * _nD];
+            for (int cell = 0; cell < _rows.Length; cell++)
+            {
+                _rows[cell] = cell / _nD;
+                _columns[cell] = cell % _nD;
+            }
+            _theta = (double[])template.Clone();
+            _fixedLogArea = Math.Log(template[_areaIndex]);
+            if (AreaFree) _theta[_areaIndex] = 1.0;
+        }
+
+        public bool AreaFree { get; }
+
+        public int Cells => _nPhi * _nD;
+
+        /// <summary>The φ index of a cell.</summary>
+        public int Row(int cell) => _rows[cell];
+
+        /// <summary>The d index of a cell.</summary>
+        public int Column(int cell) => _columns[cell];
+
+        public bool IsSeed(int cell)
+            => (!_phiFree || cell / _nD % 3 == 1) && (!_dFree || cell % _nD % 3 == 1);
+
+        public bool NeighboursAny(int cell, List<int> chosen)
+        {
             foreach (int c in chosen)
             {
-                if (Math.Abs(c / nD - ca) <= 1 && Math.Abs(c % nD - cb) <= 1) { neighbour = true; break; }
+                if (Math.Abs(c / _nD - cell / _nD) <= 1 && Math.Abs(c % _nD - cell % _nD) <= 1) return true;
             }
-            if (!neighbour) chosen.Add(cell);
+            return false;
         }
-        var starts = new List<double[]>(chosen.Count);
-        foreach (int cell in chosen)
+
+        /// <summary>
+        /// The cost of a cell (+∞ when not finite), or NaN once a partial sum exceeds <paramref name="abandonAbove"/> (area
+        /// fixed only; +∞ never abandons).
+        /// </summary>
+        public double Cost(int cell, double abandonAbove)
         {
-            var start = (double[])template.Clone();
-            if (phiFree) start[phiIndex] = GridPhi(cell / nD);
-            if (dFree) start[dIndex] = GridThickness(cell % nD);
-            if (areaFree) start[areaIndex] = Math.Exp(logAreas[cell]);
-            starts.Add(start);
+            if (_phiFree) _theta[_phiIndex] = GridPhi(cell / _nD);
+            if (_dFree) _theta[_dIndex] = GridThickness(cell % _nD);
+            int m = _m;
+            double[] v = _v, y = _y, w = _w, r = _r;
+            if (!AreaFree)
+            {
+                // c = 0: the same terms w·(r − 0)·(r − 0) summed in the same order as below.
+                double partial = 0;
+                for (int i = 0; i < m; i++)
+                {
+                    double ri = y[i] - LogCurrentProblem.LogModel(_model.Current(v[i], _theta), v[i]);
+                    partial += w[i] * (ri - 0.0) * (ri - 0.0);
+                    if (partial > abandonAbove) return double.NaN;
+                }
+                _logAreas[cell] = _fixedLogArea;
+                return double.IsFinite(partial) ? partial : double.PositiveInfinity;
+            }
+            double swr = 0;
+            for (int i = 0; i < m; i++)
+            {
+                r[i] = y[i] - LogCurrentProblem.LogModel(_model.Current(v[i], _theta), v[i]);
+                swr += w[i] * r[i];
+            }
+            double c = swr / _sw;
+            double cost = 0;
+            for (int i = 0; i < m; i++) cost += w[i] * (r[i] - c) * (r[i] - c);
+            _logAreas[cell] = c;
+            return double.IsFinite(cost) ? cost : double.PositiveInfinity;
         }
-        return starts;
+
+        public List<double[]> Exhaustive(int count)
+        {
+            var costs = new double[Cells];
+            for (int cell = 0; cell < costs.Length; cell++) costs[cell] = Cost(cell, double.PositiveInfinity);
+            return Pick(costs, count);
+        }
+
+        /// <summary>The best <paramref name="count"/> cells that are not neighbours of a better one, from every cell's cost.</summary>
+        public List<double[]> Pick(double[] costs, int count)
+        {
+            var order = new int[costs.Length];
+            for (int k = 0; k < order.Length; k++) order[k] = k;
+            Array.Sort((double[])costs.Clone(), order);
+            var chosen = new List<int>();
+            foreach (int cell in order)
+            {
+                if (chosen.Count >= count) break;
+                if (!NeighboursAny(cell, chosen)) chosen.Add(cell);
+            }
+            return Starts(chosen);
+        }
+
+        public List<double[]> Starts(List<int> chosen)
+        {
+            var starts = new List<double[]>(chosen.Count);
+            foreach (int cell in chosen)
+            {
+                var start = (double[])_template.Clone();
+                if (_phiFree) start[_phiIndex] = GridPhi(cell / _nD);
+                if (_dFree) start[_dIndex] = GridThickness(cell % _nD);
+                if (AreaFree) start[_areaIndex] = Math.Exp(_logAreas[cell]);
+                starts.Add(start);
+            }
+            return starts;
+        }
     }
 
     /// <summary>Grid cells per free barrier parameter.</summary>

@@ -66,8 +66,7 @@ public static class NoiseEstimator
             }
         }
         if (count < MinimumTriples) return null;
-        Array.Sort(scaled, 0, count);
-        double median = count % 2 == 1 ? scaled[count / 2] : 0.5 * (scaled[count / 2 - 1] + scaled[count / 2]);
+        double median = SortKernels.Median(scaled.AsSpan(0, count));
         return Math.Max(1.4826 * median, SmallestEstimate);
     }
 
@@ -75,7 +74,7 @@ public static class NoiseEstimator
     private static int AddTriples(double[] v, double[] y, double[] scaled, int count)
     {
         int m = v.Length;
-        Array.Sort(v, y);
+        SortKernels.SortWithItems(v, y);
         for (int i = 1; i < m - 1; i++)
         {
             double v0 = v[i - 1], v1 = v[i], v2 = v[i + 1];

@@ -83,7 +83,13 @@ public static class NoiseFloorEstimator
     public static NoiseFloorEstimate Estimate(ReadOnlySpan<double> voltageV, ReadOnlySpan<double> currentA, ReadOnlySpan<double> extraFloorSamplesA)
     {
         if (voltageV.Length != currentA.Length) throw new ArgumentException("voltage and current lengths differ");
-        double step = TypicalStepV(voltageV);
+        return Estimate(voltageV, currentA, extraFloorSamplesA, TypicalStepV(voltageV));
+    }
+
+    /// <summary><see cref="Estimate(ReadOnlySpan{double}, ReadOnlySpan{double}, ReadOnlySpan{double})"/> with the typical step already known.</summary>
+    internal static NoiseFloorEstimate Estimate(ReadOnlySpan<double> voltageV, ReadOnlySpan<double> currentA, ReadOnlySpan<double> extraFloorSamplesA, double step)
+    {
+        if (voltageV.Length != currentA.Length) throw new ArgumentException("voltage and current lengths differ");
         double sumSquares = 0;
         int samples = 0;
         for (int i = 0; i < voltageV.Length; i++)
@@ -121,8 +127,8 @@ public static class NoiseFloorEstimator
         var abs = new double[nonZero];
         int k0 = 0;
         foreach (double c in currentA) if (c != 0 && double.IsFinite(c)) abs[k0++] = Math.Abs(c);
-        Array.Sort(abs);
         int low = Math.Max(8, nonZero / 4);
+        SortKernels.SortSmallest(abs, low); // only the lowest quarter is read below
         double delta = double.PositiveInfinity;
         for (int i = 1; i < low; i++)
         {
@@ -134,22 +140,29 @@ public static class NoiseFloorEstimator
         {
             double q = delta / k;
             int multiples = 0;
-            var distinct = new HashSet<long>();
+            // Distinct multiples are counted up to three (all the test needs): the first two seen, then any third.
+            int distinct = 0;
+            long first = 0, second = 0;
             for (int i = 0; i < low; i++)
             {
                 double ratio = abs[i] / q;
                 double nearest = Math.Round(ratio);
-                if (nearest >= 1 && Math.Abs(ratio - nearest) <= QuantumTolerance) { multiples++; distinct.Add((long)nearest); }
+                if (nearest >= 1 && Math.Abs(ratio - nearest) <= QuantumTolerance)
+                {
+                    multiples++;
+                    long key = (long)nearest;
+                    if (distinct == 0) { first = key; distinct = 1; }
+                    else if (distinct == 1 && key != first) { second = key; distinct = 2; }
+                    else if (distinct == 2 && key != first && key != second) distinct = 3;
+                }
             }
-            if (multiples >= QuantisedFraction * low && distinct.Count >= 3) return q;
+            if (multiples >= QuantisedFraction * low && distinct >= 3) return q;
         }
         return null;
     }
 
     private static double Median(Span<double> values)
     {
-        values.Sort();
-        int n = values.Length;
-        return n % 2 == 1 ? values[n / 2] : 0.5 * (values[n / 2 - 1] + values[n / 2]);
+        return SortKernels.Median(values);
     }
 }

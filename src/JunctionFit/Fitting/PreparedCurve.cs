@@ -64,7 +64,7 @@ internal sealed record PreparedCurve(
         var settling = options.KeepSettling ? [] : CurveDiagnostics.SettlingPoints(vAll, iAll, step);
         var floor = options.NoiseFloorA is double given
             ? new NoiseFloorEstimate(given, given > 0 ? NoiseFloorSource.Given : NoiseFloorSource.None, 0, null)
-            : NoiseFloorEstimator.Estimate(vAll, iAll, nearZeroFloor.Currents);
+            : NoiseFloorEstimator.Estimate(vAll, iAll, nearZeroFloor.Currents, step);
         double floorA = floor.FloorA;
 
         var directions = options.SweepDirection != 0 ? CurveDiagnostics.Directions(vAll) : null;
@@ -196,7 +196,7 @@ internal sealed record PreparedCurve(
         }
         if (count == 0) return ([], []);
         var gs = nearestG[..count].ToArray();
-        Array.Sort(gs);
+        SortKernels.Sort(gs);
         double gRef = count % 2 == 1 ? gs[count / 2] : Math.Sqrt(gs[count / 2 - 1] * gs[count / 2]);
         var indices = new List<int>();
         var currents = new List<double>();

@@ -37,6 +37,10 @@ internal sealed record ParseOutcome(
 internal static class IvTableParser
 {
     private static readonly char[] CandidateDelimiters = ['\t', ';', ',', '|', ' '];
+
+    /// <summary>Characters that do not belong in a text table: C0 controls other than tab, LF, CR, FF, VT and SUB; DEL; U+FFFD.</summary>
+    private static readonly System.Buffers.SearchValues<char> ControlCharacters = System.Buffers.SearchValues.Create(
+        "\u0000\u0001\u0002\u0003\u0004\u0005\u0006\u0007\u0008\u000E\u000F\u0010\u0011\u0012\u0013\u0014\u0015\u0016\u0017\u0018\u0019\u001B\u001C\u001D\u001E\u001F\u007F\uFFFD");
     private const int SampleRows = 3;
     private const int DetailedSkipWarnings = 10;
 
@@ -83,17 +87,23 @@ internal static class IvTableParser
         int sample = Math.Min(text.Length, 65536);
         int controls = 0;
         int first = -1;
-        for (int i = 0; i < sample; i++)
+        // One vectorised scan when the text is clean; each hit is counted.
+        ReadOnlySpan<char> rest = text.AsSpan(0, sample);
+        int offset = 0;
+        while (true)
         {
-            char c = text[i];
-            if ((c < ' ' && c is not ('\t' or '\n' or '\r' or '\f' or '\v' or '\u001A')) || c == '\u007F' || c == '\uFFFD')
+            int hit = rest.IndexOfAny(ControlCharacters);
+            if (hit < 0)
             {
-                controls++;
-                if (first < 0)
-                {
-                    first = i;
-                }
+                break;
             }
+            controls++;
+            if (first < 0)
+            {
+                first = offset + hit;
+            }
+            offset += hit + 1;
+            rest = rest[(hit + 1)..];
         }
         // More than 32 control characters, or at least 4 making up more than 1 %, is not a table
         // of text (common practice, no source). SUB (0x1A, an old end-of-file mark) is allowed.

@@ -60,9 +60,9 @@ internal static class TextDecoder
     {
         bigEndian = false;
         int n = Math.Min(bytes.Length, 4096) & ~1;
-        if (n < 4)
+        if (n < 4 || !bytes[..n].Contains((byte)0))
         {
-            return false;
+            return false; // no zero byte: neither parity has any
         }
         int evenZeros = 0, oddZeros = 0;
         for (int i = 0; i < n; i += 2)
