@@ -125,14 +125,7 @@ public static class JunctionFitter
         int iterations = 0;
         foreach (var start in starts)
         {
-            var x0 = new double[iterIndex.Length];
-            bool finite = true;
-            for (int j = 0; j < iterIndex.Length; j++)
-            {
-                x0[j] = ParameterTransforms.ToSolver(defs[iterIndex[j]], start[iterIndex[j]]);
-                finite &= double.IsFinite(x0[j]);
-            }
-            if (!finite) continue;
+            if (!ParameterTransforms.TryToSolver(defs, iterIndex, start, out var x0)) continue;
             var solution = LevenbergMarquardtSolver.Minimize(problem, x0, options.Solver);
             iterations += solution.Iterations;
             if (!double.IsFinite(solution.ResidualSumOfSquares)) continue;

@@ -69,4 +69,17 @@ internal static class ParameterTransforms
     }
 
     private static double LowerOf(ParameterDefinition def) => double.IsFinite(def.LowerSi) ? def.LowerSi : 0.0;
+
+    /// <summary>Solver variables of the parameters <paramref name="index"/> of θ; false when any is not finite.</summary>
+    public static bool TryToSolver(IReadOnlyList<ParameterDefinition> defs, int[] index, double[] theta, out double[] x)
+    {
+        x = new double[index.Length];
+        bool finite = true;
+        for (int j = 0; j < index.Length; j++)
+        {
+            x[j] = ToSolver(defs[index[j]], theta[index[j]]);
+            finite &= double.IsFinite(x[j]);
+        }
+        return finite;
+    }
 }

@@ -100,14 +100,7 @@ internal static class UndeterminedParameters
         double best = double.PositiveInfinity;
         foreach (var start in starts)
         {
-            var x0 = new double[iterIndex.Length];
-            bool finite = true;
-            for (int j = 0; j < iterIndex.Length; j++)
-            {
-                x0[j] = ParameterTransforms.ToSolver(defs[iterIndex[j]], start[iterIndex[j]]);
-                finite &= double.IsFinite(x0[j]);
-            }
-            if (!finite) continue;
+            if (!ParameterTransforms.TryToSolver(defs, iterIndex, start, out var x0)) continue;
             if (iterIndex.Length == 0)
             {
                 var r = new double[data.VoltageV.Length];
