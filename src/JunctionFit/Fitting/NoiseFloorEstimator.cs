@@ -23,10 +23,23 @@ public enum NoiseFloorSource
 /// <param name="QuantumA">The current quantisation step in ampere, when one was detected.</param>
 public sealed record NoiseFloorEstimate(double FloorA, NoiseFloorSource Source, int ZeroBiasSamples, double? QuantumA)
 {
+    /// <summary>
+    /// When the zero-bias readings suggested a larger floor than the scatter of the low-current points supports, the
+    /// floor they suggested (ampere); <see cref="FloorA"/> is then the scatter's estimate (see
+    /// <see cref="NoiseFloorEstimator.FloorFromScatter"/>). Null when the floor was not revised.
+    /// </summary>
+    public double? SuggestedA { get; init; }
+
+    /// <summary>Number of independent triples of low-current points that tested the suggested floor (0 when not revised).</summary>
+    public int ScatterTriples { get; init; }
+
     /// <summary>The floor in words for fit output, for example "1.0e-13 A (from 3 readings at zero bias)".</summary>
     public string Describe() => Source switch
     {
         NoiseFloorSource.Given => $"{FloorA:0.0#e+0} A (given)",
+        NoiseFloorSource.ZeroBias when SuggestedA is double suggested =>
+            $"{FloorA:0.0#e+0} A (the {ZeroBiasSamples} reading(s) at zero bias suggested {suggested:0.0#e+0} A; the scatter of " +
+            $"{ScatterTriples} triples of low-current points does not support it)",
         NoiseFloorSource.ZeroBias => $"{FloorA:0.0#e+0} A (estimated from {ZeroBiasSamples} reading(s) at zero bias" +
                                      (QuantumA is double q ? $"; current quantised in steps of {q:0.0#e+0} A)" : ")"),
         NoiseFloorSource.Quantisation => $"{FloorA:0.0#e+0} A (estimated from the current quantisation step {QuantumA:0.0#e+0} A)",
@@ -111,6 +124,95 @@ public static class NoiseFloorEstimator
         if (fromZero > 0 && fromZero >= fromQuantum) return new NoiseFloorEstimate(fromZero, NoiseFloorSource.ZeroBias, samples, quantum);
         if (fromQuantum > 0) return new NoiseFloorEstimate(fromQuantum, NoiseFloorSource.Quantisation, samples, quantum);
         return new NoiseFloorEstimate(0.0, NoiseFloorSource.None, samples, null);
+    }
+
+    /// <summary>Likelihood-ratio statistic above which the scatter rejects a suggested floor: the 99.9 % point of χ²₁, 10.83
+    /// (standard table value). The strict level allows for what the Gaussian ln-space model leaves out (points below 3σ
+    /// are already dropped, which trims the scatter of the survivors); measured false rejections of a real floor are
+    /// in NoiseFloorTests.</summary>
+    public const double FloorRejectionStatistic = 10.83;
+
+    /// <summary>A suggested floor is only revised when the scatter's estimate is below this fraction of it.</summary>
+    public const double FloorRevisionFraction = 1.0 / 3.0;
+
+    /// <summary>Fewest independent triples of floor-dominated points for the scatter to judge a floor.</summary>
+    public const int MinimumFloorTriples = 8;
+
+    /// <summary>
+    /// Checks a floor suggested by zero-bias readings against the scatter of the points it would down-weight, and returns
+    /// the floor the scatter supports, or null when the suggested floor stands (or the points cannot tell).
+    /// <para>
+    /// A single zero-bias reading (an offset, one noisy sample) can suggest a floor far above the real noise of the
+    /// low-current points. Under the noise model the relative standard deviation of ln|Iᵢ| is sᵢ = √(r² + (σ/|Iᵢ|)²), so a
+    /// real floor σ shows as extra point-to-point scatter wherever σ/|I| &gt; r. The test uses y = ln|I/V| (nearly flat
+    /// where the current is lowest, near zero bias), sorted by V, and the second differences eₜ = yᵢ − (wₗ yᵢ₋₁ + wᵣ yᵢ₊₁)
+    /// of non-overlapping triples (independent under the model) whose middle point is floor-dominated; Var eₜ =
+    /// sᵢ² + wₗ² sᵢ₋₁² + wᵣ² sᵢ₊₁² for Gaussian noise. The log-likelihood ℓ(σ) = −½ Σₜ [ln Var eₜ + eₜ²/Var eₜ] is maximised
+    /// over σ ∈ {0} ∪ {σ₀·10^(−k/8), k = 0 … 48} (σ₀ the suggested floor); when 2[ℓ(σ̂) − ℓ(σ₀)] exceeds
+    /// <see cref="FloorRejectionStatistic"/> and σ̂ is below <see cref="FloorRevisionFraction"/> of σ₀, the suggested floor is
+    /// rejected and σ̂ returned (a likelihood-ratio test,
+    /// Wilks 1938; the χ²₁ reference is approximate, σ being bounded). Curvature of y left in eₜ only adds scatter, which
+    /// keeps a floor: the test errs toward the suggested floor.
+    /// </para>
+    /// </summary>
+    /// <param name="voltageV">Bias of the points that enter the fit (no zero bias), any order.</param>
+    /// <param name="logAbsCurrent">ln|I| of those points.</param>
+    /// <param name="relativeNoise">The relative noise r.</param>
+    /// <param name="suggestedFloorA">The floor σ₀ suggested by the zero-bias readings.</param>
+    /// <param name="triples">Number of triples that entered the test.</param>
+    public static double? FloorFromScatter(ReadOnlySpan<double> voltageV, ReadOnlySpan<double> logAbsCurrent, double relativeNoise,
+        double suggestedFloorA, out int triples)
+    {
+        if (voltageV.Length != logAbsCurrent.Length) throw new ArgumentException("voltage and current lengths differ");
+        triples = 0;
+        int m = voltageV.Length;
+        if (!(suggestedFloorA > 0) || !(relativeNoise > 0) || m < 3) return null;
+        var v = voltageV.ToArray();
+        var y = new double[m];
+        var logI = logAbsCurrent.ToArray();
+        SortKernels.SortWithItems(v, logI);
+        for (int i = 0; i < m; i++) y[i] = logI[i] - Math.Log(Math.Abs(v[i]));
+        // Per triple: e², and the inverse squared currents (1/I²) of its three points with their variance weights.
+        var e2 = new List<double>();
+        var coefficientSum = new List<double>();   // 1 + wl² + wr² (the r² part of Var e)
+        var inverseCurrentSq = new List<(double Middle, double Left, double Right, double Wl, double Wr)>();
+        for (int i = 1; i < m - 1; i++)
+        {
+            double v0 = v[i - 1], v1 = v[i], v2 = v[i + 1];
+            if (Math.Sign(v0) != Math.Sign(v2) || v2 <= v0) continue;
+            double im = Math.Exp(logI[i]);
+            if (!(suggestedFloorA / im > relativeNoise)) continue;
+            double wl = (v2 - v1) / (v2 - v0), wr = 1.0 - wl;
+            double e = y[i] - (wl * y[i - 1] + wr * y[i + 1]);
+            e2.Add(e * e);
+            coefficientSum.Add(1.0 + wl * wl + wr * wr);
+            inverseCurrentSq.Add((1.0 / (im * im), Math.Exp(-2 * logI[i - 1]), Math.Exp(-2 * logI[i + 1]), wl, wr));
+            i += 2; // non-overlapping: the next triple starts after this one's right point
+        }
+        triples = e2.Count;
+        if (triples < MinimumFloorTriples) return null;
+        double r2 = relativeNoise * relativeNoise;
+        double LogLikelihood(double floorA)
+        {
+            double f2 = floorA * floorA, sum = 0;
+            for (int t = 0; t < e2.Count; t++)
+            {
+                var c = inverseCurrentSq[t];
+                double variance = r2 * coefficientSum[t] + f2 * (c.Middle + c.Wl * c.Wl * c.Left + c.Wr * c.Wr * c.Right);
+                sum += Math.Log(variance) + e2[t] / variance;
+            }
+            return -0.5 * sum;
+        }
+        double atSuggested = LogLikelihood(suggestedFloorA);
+        double best = LogLikelihood(0.0), bestFloor = 0.0;
+        for (int k = 1; k <= 48; k++)
+        {
+            double floor = suggestedFloorA * Math.Pow(10.0, -k / 8.0);
+            double l = LogLikelihood(floor);
+            if (l > best) { best = l; bestFloor = floor; }
+        }
+        if (atSuggested >= best) return null;
+        return 2.0 * (best - atSuggested) > FloorRejectionStatistic && bestFloor < FloorRevisionFraction * suggestedFloorA ? bestFloor : null;
     }
 
     /// <summary>

@@ -50,7 +50,26 @@ internal sealed record PreparedCurve(
     /// <summary>Points with a finite, non-zero bias inside the bias window (before the current-based masks).</summary>
     public int InWindow { get; init; }
 
+    /// <summary>
+    /// The points, ln|I| and weights of a curve. A floor estimated from zero-bias readings is checked against the scatter
+    /// of the points it down-weights (<see cref="NoiseFloorEstimator.FloorFromScatter"/>); when the scatter rejects it,
+    /// the curve is prepared again with the floor the scatter supports (never below the quantisation floor q/√12).
+    /// </summary>
     public static PreparedCurve From(IvCurve curve, FitOptions options)
+    {
+        var first = Build(curve, options, null);
+        if (first.Floor.Source != NoiseFloorSource.ZeroBias || first.DownWeighted < NoiseFloorEstimator.MinimumFloorTriples) return first;
+        if (NoiseFloorEstimator.FloorFromScatter(first.VoltageV, first.LogAbsCurrent, first.RelativeNoiseUsed, first.Floor.FloorA, out int triples)
+            is not double supported)
+        {
+            return first;
+        }
+        double quantisationFloor = first.Floor.QuantumA is double q ? q / Math.Sqrt(12.0) : 0.0;
+        var revised = first.Floor with { FloorA = Math.Max(supported, quantisationFloor), SuggestedA = first.Floor.FloorA, ScatterTriples = triples };
+        return Build(curve, options, revised);
+    }
+
+    private static PreparedCurve Build(IvCurve curve, FitOptions options, NoiseFloorEstimate? revisedFloor)
     {
         double? compliance = options.ComplianceA ?? curve.ComplianceA;
         int n = curve.Count;
@@ -62,9 +81,9 @@ internal sealed record PreparedCurve(
         // Off-grid near-zero points whose conductance disagrees with their on-grid neighbours are floor readings.
         var nearZeroFloor = NearZeroFloorReadings(vAll, iAll, step);
         var settling = options.KeepSettling ? [] : CurveDiagnostics.SettlingPoints(vAll, iAll, step);
-        var floor = options.NoiseFloorA is double given
+        var floor = revisedFloor ?? (options.NoiseFloorA is double given
             ? new NoiseFloorEstimate(given, given > 0 ? NoiseFloorSource.Given : NoiseFloorSource.None, 0, null)
-            : NoiseFloorEstimator.Estimate(vAll, iAll, nearZeroFloor.Currents, step);
+            : NoiseFloorEstimator.Estimate(vAll, iAll, nearZeroFloor.Currents, step));
         double floorA = floor.FloorA;
 
         var directions = options.SweepDirection != 0 ? CurveDiagnostics.Directions(vAll) : null;
