@@ -205,6 +205,10 @@ public static class MeasurementPlanner
         {
             return new MeasurementPlan(proposed, proposedWorst, null, [], null, fieldThicknessNm, null, focus, warnings.ToImmutable());
         }
+        if (proposed is not null && proposed.MaxAbsVoltageV > biasLimit * (1 + 1e-12))
+        {
+            warnings.Add($"the proposed sweep reaches {proposed.MaxAbsVoltageV:0.###} V, beyond the bias limit of {biasLimit:0.###} V from the stated limits");
+        }
         biasLimit = RoundDownToMillivolt(biasLimit);
         if (!(biasLimit > 0))
         {
@@ -350,8 +354,8 @@ public static class MeasurementPlanner
     }
 
     /// <summary>
-    /// The nominal grid: the centre first, then every combination of <see cref="PlanRequest.RangePoints"/> evenly spaced values
-    /// per range (ends included).
+    /// The nominal grid: the centre first (the nominal setup, whose ranged values are the middles of their ranges), then every
+    /// other combination of <see cref="PlanRequest.RangePoints"/> evenly spaced values per range (ends included).
     /// </summary>
     /// <param name="request">The request.</param>
     public static IReadOnlyList<PlanningSetup> Grid(PlanRequest request)
@@ -367,14 +371,17 @@ public static class MeasurementPlanner
         {
             var values = new Dictionary<string, double>(StringComparer.Ordinal);
             int rest = c;
+            bool middle = per % 2 == 1;
             foreach (string key in keys)
             {
                 var (lo, hi) = request.Ranges[key];
                 int i = rest % per;
                 rest /= per;
+                middle &= i == per / 2;
                 values[key] = i == per - 1 ? hi : lo + (hi - lo) * i / (per - 1);
             }
-            list.Add(request.Setup.WithNominal(values));
+            // The middle of every range is the centre, already first in the list.
+            if (!middle) list.Add(request.Setup.WithNominal(values));
         }
         return list;
     }

@@ -38,7 +38,7 @@ public static class PlanFormatter
             w.WriteStartObject();
             w.WriteString("model", setup.Model.Barrier.Name);
             w.WriteStartObject("nominal");
-            for (int k = 0; k < defs.Count; k++) w.WriteNumber(defs[k].Key, defs[k].ToDisplay(setup.NominalSi[k]));
+            for (int k = 0; k < defs.Count; k++) w.WriteNumber(defs[k].Key, Tidy(defs[k].ToDisplay(setup.NominalSi[k])));
             w.WriteEndObject();
             w.WriteStartArray("free");
             foreach (var def in defs) if (setup.FreeKeys.Contains(def.Key)) w.WriteStringValue(def.Key);
@@ -124,7 +124,7 @@ public static class PlanFormatter
             w.WriteStartObject("limits");
             WriteNumberOrNull(w, "max_bias_V", request.MaxBiasV);
             WriteNumberOrNull(w, "max_field_MV_per_cm", request.MaxFieldVPerM / VoltPerMeterPerMvPerCm);
-            WriteNumberOrNull(w, "field_thickness_nm", plan.FieldThicknessNm);
+            WriteNumberOrNull(w, "field_thickness_nm", plan.FieldThicknessNm is double ftn ? Tidy(ftn) : null);
             WriteNumberOrNull(w, "bias_limit_V", plan.BiasLimitV);
             WriteNumberOrNull(w, "compliance_A", setup.ComplianceA);
             WriteNumberOrNull(w, "compliance_reached_at_V", plan.ComplianceBiasV);
@@ -239,7 +239,7 @@ public static class PlanFormatter
     private static void WritePrediction(Utf8JsonWriter w, ParameterPrediction q, double? relative, IReadOnlyDictionary<string, double>? at)
     {
         w.WriteStartObject(q.Key);
-        w.WriteNumber("value", q.Value);
+        w.WriteNumber("value", Tidy(q.Value));
         WriteNumberOrNull(w, "stderr", q.StandardError);
         WriteNumberOrNull(w, "ci95_halfwidth", q.HalfWidth95);
         if (q.Lower95 is double lo && q.Upper95 is double hi)
@@ -259,7 +259,7 @@ public static class PlanFormatter
             w.WriteStartObject("at");
             foreach (var (key, value) in at.Where(kv => kv.Key is "barrier_height_eV" or "thickness_nm" or "asymmetry_eV"))
             {
-                w.WriteNumber(key, value);
+                w.WriteNumber(key, Tidy(value));
             }
             w.WriteEndObject();
         }
@@ -276,8 +276,8 @@ public static class PlanFormatter
         {
             var def = defs[request.Setup.Model.IndexOf(key)];
             w.WriteStartArray(key);
-            w.WriteNumberValue(def.ToDisplay(lo));
-            w.WriteNumberValue(def.ToDisplay(hi));
+            w.WriteNumberValue(Tidy(def.ToDisplay(lo)));
+            w.WriteNumberValue(Tidy(def.ToDisplay(hi)));
             w.WriteEndArray();
         }
         w.WriteEndObject();
@@ -313,5 +313,8 @@ public static class PlanFormatter
         _ => "linear",
     };
 
-    private static string F(double x) => x.ToString("G4", Inv);
+    /// <summary>A display value at 12 significant digits: unit conversions leave 1.5000000000000002 for 1.5.</summary>
+    private static double Tidy(double x) => double.Parse(x.ToString("G12", Inv), Inv);
+
+    private static string F(double x) => x.ToString("G4", Inv).Replace("E", "e", StringComparison.Ordinal);
 }
