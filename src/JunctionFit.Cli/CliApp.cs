@@ -32,6 +32,7 @@ public static class CliApp
         root.Subcommands.Add(ThicknessCommand.Create(context));
         root.Subcommands.Add(TemperatureSeriesCommand.Create(context));
         root.Subcommands.Add(ResultsCommand.Create(context));
+        root.Subcommands.Add(PlanCommand.Create(context));
         var parse = root.Parse(args);
         if (parse.Errors.Count > 0)
         {

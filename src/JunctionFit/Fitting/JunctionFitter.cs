@@ -555,7 +555,7 @@ public static class JunctionFitter
         return a;
     }
 
-    private static double StudentT975(int dof)
+    internal static double StudentT975(int dof)
     {
         if (dof >= StudentT975Cache.Length) return StudentT.InvCDF(0.0, 1.0, dof, 0.975);
         double q = Volatile.Read(ref StudentT975Cache[dof]);

@@ -181,7 +181,7 @@ public class HelpTextTests
     {
         var (code, output, _) = CliRunner.Run("--help");
         Assert.Equal(0, code);
-        foreach (string command in new[] { "fit", "simulate", "demo", "inspect", "batch", "drift", "thickness", "temperature-series", "results" })
+        foreach (string command in new[] { "fit", "simulate", "demo", "inspect", "batch", "drift", "thickness", "temperature-series", "results", "plan" })
         {
             Assert.Contains(command, output, StringComparison.Ordinal);
         }
