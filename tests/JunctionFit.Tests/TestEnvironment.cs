@@ -17,4 +17,24 @@ public static class TestEnvironment
     /// <param name="reason">Why the test cannot run here.</param>
     /// <returns><paramref name="reason"/>, or null when <see cref="NoSkips"/>.</returns>
     public static string? SkipUnlessCi(string reason) => NoSkips ? null : reason;
+
+    /// <summary>
+    /// The first executable file named <paramref name="program"/> in a folder of <c>PATH</c>, as the shell's <c>command -v</c>
+    /// finds it (.ci/run looks for the browser the same way), or null.
+    /// </summary>
+    /// <param name="program">A program name without a folder, such as <c>chromium</c>.</param>
+    /// <returns>The full path, or null when no folder of <c>PATH</c> holds it.</returns>
+    public static string? FindOnPath(string program)
+    {
+        string path = Environment.GetEnvironmentVariable("PATH") ?? "";
+        foreach (string dir in path.Split(Path.PathSeparator, StringSplitOptions.RemoveEmptyEntries))
+        {
+            string candidate = Path.Combine(dir, program);
+            if (File.Exists(candidate) && (OperatingSystem.IsWindows() || (File.GetUnixFileMode(candidate) & (UnixFileMode.UserExecute | UnixFileMode.GroupExecute | UnixFileMode.OtherExecute)) != 0))
+            {
+                return candidate;
+            }
+        }
+        return null;
+    }
 }

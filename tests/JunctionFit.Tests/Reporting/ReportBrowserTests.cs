@@ -6,19 +6,23 @@ namespace JunctionFit.Tests.Reporting;
 
 /// <summary>
 /// Runs only where Debian's chromium is installed (.ci/run installs it); elsewhere it is skipped, saying why — except under
-/// CI (<c>JUNCTIONFIT_CI=1</c>), where it runs and fails on the missing browser.
+/// CI (<c>JUNCTIONFIT_CI=1</c>), where it runs and fails on the missing browser. The browser is the first <c>chromium</c> on
+/// <c>PATH</c>, as .ci/run's <c>command -v chromium</c> finds it.
 /// </summary>
 public sealed class ChromiumFactAttribute : FactAttribute
 {
-    public const string ChromiumPath = "/usr/bin/chromium";
+    public const string ProgramName = "chromium";
 
     public ChromiumFactAttribute()
     {
-        if (!File.Exists(ChromiumPath))
+        if (ChromiumPath is null)
         {
-            Skip = TestEnvironment.SkipUnlessCi($"skipped: no headless browser at {ChromiumPath} (install Debian's chromium package; .ci/run does)");
+            Skip = TestEnvironment.SkipUnlessCi($"skipped: no {ProgramName} on PATH (install Debian's chromium package; .ci/run does)");
         }
     }
+
+    /// <summary>The browser found on <c>PATH</c>, or null.</summary>
+    public static string? ChromiumPath => TestEnvironment.FindOnPath(ProgramName);
 }
 
 /// <summary>The batch report opened in a real headless browser, offline.</summary>
@@ -26,9 +30,10 @@ public class ReportBrowserTests
 {
     private static (string Stdout, int Code) Chromium(params string[] args)
     {
-        Assert.True(File.Exists(ChromiumFactAttribute.ChromiumPath),
-            $"no headless browser at {ChromiumFactAttribute.ChromiumPath}, and under {TestEnvironment.CiVariable}=1 no test may skip (install Debian's chromium package)");
-        var info = new ProcessStartInfo(ChromiumFactAttribute.ChromiumPath) { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
+        string? chromium = ChromiumFactAttribute.ChromiumPath;
+        Assert.True(chromium is not null,
+            $"no {ChromiumFactAttribute.ProgramName} on PATH, and under {TestEnvironment.CiVariable}=1 no test may skip (install Debian's chromium package)");
+        var info = new ProcessStartInfo(chromium) { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
         // Flags for a root sandbox without network (see the machine notes): no sandbox, no GPU, no background traffic.
         foreach (string a in new[] { "--headless", "--no-sandbox", "--disable-gpu", "--disable-quic", "--no-first-run", "--disable-background-networking",
                      "--disable-component-update", "--disable-sync", "--user-data-dir=" + Path.Combine(Path.GetTempPath(), "jf-chromium-" + Guid.NewGuid().ToString("N")) })
