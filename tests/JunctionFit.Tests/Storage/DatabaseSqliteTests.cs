@@ -82,7 +82,7 @@ public sealed class DatabaseSqliteTests : IDisposable
         }
         using var c = Raw();
         Assert.Equal("wal", Scalar(c, "PRAGMA journal_mode"));
-        Assert.Equal("2", Scalar(c, "SELECT COUNT(*) FROM schema_version")); // one row per migration step
+        Assert.Equal(Migrations.All.Count.ToString(System.Globalization.CultureInfo.InvariantCulture), Scalar(c, "SELECT COUNT(*) FROM schema_version")); // one row per migration step
         Assert.Equal(ResultStore.CurrentSchemaVersion.ToString(System.Globalization.CultureInfo.InvariantCulture), Scalar(c, "SELECT MAX(version) FROM schema_version"));
     }
 
@@ -164,7 +164,7 @@ public sealed class DatabaseSqliteTests : IDisposable
                  "'{\"keys\": [], \"matrix\": []}', 0, 'run-1', '2025-03-14T10:15:00.0000000Z', '0.9', 'probe-7', '2025-03-14T10:16:00.0000000Z')");
         }
         using var store = Open();
-        Assert.Equal(2, store.SchemaVersion);
+        Assert.Equal(Migrations.Latest, store.SchemaVersion);
         var row = Assert.Single(store.Query());
         Assert.Equal("probe-7", row.FittedBy);
         Assert.Equal(new DateTimeOffset(2025, 3, 14, 10, 16, 0, TimeSpan.Zero), row.FittedAt);
