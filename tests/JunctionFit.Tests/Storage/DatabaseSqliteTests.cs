@@ -172,6 +172,44 @@ public sealed class DatabaseSqliteTests : IDisposable
         Assert.Empty(store.CheckConsistency());
     }
 
+    [Fact]
+    public void Open_Version2Database_MigratesToOptionsIndexKeepingTheOptionSetOfEachRow()
+    {
+        // A database as version 2 left it, with one row written by the store of that version (its DDL, then a write).
+        Directory.CreateDirectory(Path.GetDirectoryName(_db)!);
+        using (var c = Raw())
+        {
+            void Exec(string sql)
+            {
+                using var cmd = c.CreateCommand();
+                cmd.CommandText = sql;
+                cmd.ExecuteNonQuery();
+            }
+            Exec(Migrations.CreateVersionTable);
+            foreach (var step in Migrations.All.Take(2))
+            {
+                foreach (string sql in step.Sqlite) Exec(sql);
+                Exec($"INSERT INTO schema_version VALUES ({step.Version}, '2025-03-14T10:00:00Z', 'v{step.Version}')");
+            }
+            var key = DemoResults.Key(4);
+            string options = DemoResults.Options.Replace("'", "''", StringComparison.Ordinal);
+            Exec("INSERT INTO fit_result (file_sha256, model, options_hash, options_text, file_path, status, warnings_json, correlation_json, " +
+                 "parameter_count, run_id, run_started_utc, tool_version, host, stored_utc, fitted_by, fitted_at) VALUES " +
+                 $"('{key.FileSha256}', 'simmons', '{key.OptionsHash}', '{options}', 'KM-A01/W00/die_04_00.csv', 'failed', '[]', " +
+                 "'{\"keys\": [], \"matrix\": []}', 0, 'run-1', '2025-03-14T10:15:00.0000000Z', '0.9', 'probe-7', '2025-03-14T10:16:00.0000000Z', " +
+                 "'probe-7:1', '2025-03-14T10:16:00.0000000Z')");
+        }
+        using (var store = Open())
+        {
+            Assert.Equal(Migrations.Latest, store.SchemaVersion);
+            var row = Assert.Single(store.Query()).ToRow();
+            Assert.Equal(DemoResults.Options, row.OptionSet); // readable, not only the hash
+            Assert.Single(OptionSets.Of([row]));
+        }
+        using var check = Raw();
+        Assert.Equal("fit_result_options", Scalar(check, "SELECT name FROM sqlite_master WHERE type = 'index' AND name = 'fit_result_options'"));
+    }
+
     private SqliteConnection Raw()
     {
         var c = new SqliteConnection(new SqliteConnectionStringBuilder { DataSource = _db, Pooling = false }.ConnectionString);
