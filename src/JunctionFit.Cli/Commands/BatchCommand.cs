@@ -23,6 +23,9 @@ internal static class BatchCommand
     /// <summary>Rows of the report's summary table (the full table is results.csv), so the report stays readable and small.</summary>
     public const int ReportSummaryLimit = 2000;
 
+    /// <summary>Folder of the fit plots inside the output folder (results.csv names plots relative to the output folder).</summary>
+    public const string PlotDirName = "plots";
+
     /// <summary>Parameters drawn as wafer maps.</summary>
     public static readonly string[] MapKeys = ["barrier_height_eV", "thickness_nm", "area_m2", "flatband_voltage_V"];
 
@@ -106,7 +109,7 @@ internal static class BatchCommand
             return new BatchOutcome(ExitCodes.UsageOrInput, [], "", "");
         }
         Directory.CreateDirectory(s.OutDir);
-        string plotDir = Path.Combine(s.OutDir, "plots");
+        string plotDir = Path.Combine(s.OutDir, PlotDirName);
         string mapDir = Path.Combine(s.OutDir, "maps");
         if (s.Plots) Directory.CreateDirectory(plotDir);
         Directory.CreateDirectory(mapDir);
@@ -115,6 +118,7 @@ internal static class BatchCommand
         string resultsPath = Path.Combine(s.OutDir, ResultsCsv.FileName);
         string partial = resultsPath + ".partial";
         var rows = new List<ResultRow>(files.Count);
+        var results = new List<FitResult>(files.Count);
         var plotByIndex = new string?[files.Count];
         var reportCandidates = new List<(int Index, FitResult Result, string? Plot)>();
         var plotNames = new HashSet<string>(StringComparer.Ordinal);
@@ -147,19 +151,20 @@ internal static class BatchCommand
         var worker = WorkerIdentity.Current(s.WorkerName);
         var work = store is null ? null : new SharedWork(store, worker, s.Lease, s.Force, files, fileKeys, context.Error);
         var dbWriter = store is null ? null : new ChunkedResultWriter(store, chunkSize: SharedWork.MaxBlock, claimsOf: worker);
-        using (var writer = new StreamWriter(partial, false, AtomicFile.Utf8NoBom))
+        using (var file = new FileStream(partial, FileMode.Create, FileAccess.Write, FileShare.Read))
+        using (var table = ResultsCsv.Open(file, keys))
         {
-            writer.Write(ResultsCsv.FormatHeader(keys));
             // Rows go out in input order: one that arrives early (another worker's file came later) waits for its predecessors.
-            var waiting = new ResultRow?[files.Count];
+            var waiting = new (ResultRow Row, FitResult Result)?[files.Count];
             int nextRow = 0;
-            void Emit(int index, ResultRow row)
+            void Emit(int index, ResultRow row, FitResult result)
             {
-                waiting[index] = row;
-                while (nextRow < files.Count && waiting[nextRow] is ResultRow ready)
+                waiting[index] = (row, result);
+                while (nextRow < files.Count && waiting[nextRow] is { } ready)
                 {
-                    writer.Write(ResultsCsv.FormatRow(ready, keys));
-                    rows.Add(ready);
+                    table.Write(ready.Row);
+                    rows.Add(ready.Row);
+                    results.Add(ready.Result);
                     waiting[nextRow++] = null;
                 }
             }
@@ -192,7 +197,7 @@ internal static class BatchCommand
                 if (result.Status != FitStatus.Ok) notOk++;
                 if (result.Status != FitStatus.Ok && outcome.ReadError is null)
                 {
-                    context.Error.WriteLine($"{result.SourcePath}:0: {FitJsonFormatter.StatusText(result.Status)}: {result.StatusReason ?? result.Error}");
+                    context.Error.WriteLine($"{result.SourcePath}:0: {ResultSchema.StatusText(result.Status)}: {result.StatusReason ?? result.Error}");
                 }
                 string? plot = null;
                 if (outcome.PlotPng is { } png)
@@ -201,7 +206,12 @@ internal static class BatchCommand
                     AtomicFile.WriteAllBytes(plot, png);
                 }
                 plotByIndex[index] = plot;
-                Emit(index, ResultRow.FromFitResult(result));
+                var row = ResultRow.FromFitResult(result) with
+                {
+                    OptionSet = optionsText,
+                    Plot = plot is null ? null : PlotDirName + "/" + Path.GetFileName(plot),
+                };
+                Emit(index, row, result with { Curve = null });
                 KeepForReport(reportCandidates, index, result with { Curve = null }, plot);
                 progress.Report(++done);
             }
@@ -224,8 +234,8 @@ internal static class BatchCommand
                                             "(a longer --lease avoids this)");
                 }
             }
-            writer.Flush();
-            writer.BaseStream.Flush();
+            table.Flush();
+            file.Flush(flushToDisk: true);
         }
         dbWriter?.Flush();
         File.Move(partial, resultsPath, overwrite: true);
@@ -272,7 +282,7 @@ internal static class BatchCommand
             int index = rows.IndexOf(o.Row);
             if (index >= 0 && !reportCandidates.Any(c => c.Index == index))
             {
-                var asResult = RowAsResult(o.Row);
+                var asResult = results[index];
                 asResult = asResult with
                 {
                     Warnings = asResult.Warnings.Add($"out of family in lot {o.Row.Lot}: {o.Key} = {LotAnalyses.Num(o.Value)} against the lot median " +
@@ -294,7 +304,7 @@ internal static class BatchCommand
             }
             else if (rows[i].Status != FitStatus.Ok || okListed++ < okBudget)
             {
-                entries.Add(new HtmlReportEntry(RowAsResult(rows[i])) { ShowSection = false });
+                entries.Add(new HtmlReportEntry(results[i]) { ShowSection = false });
             }
         }
         string reportPath = Path.Combine(s.OutDir, "report.html");
@@ -369,13 +379,9 @@ internal static class BatchCommand
     /// <summary>Keys of every parameter any model of the plan can report, in the standard order.</summary>
     internal static List<string> ParameterKeys(FitPlan plan)
     {
-        var keys = new List<string>(ResultRow.StandardKeys);
-        foreach (string name in plan.ModelNames)
-        {
-            var model = new Physics.JunctionCurrentModel(Physics.BarrierModelCatalog.Create(name, plan.ModelOptions), plan.Parasitics);
-            foreach (var def in model.Parameters) if (!keys.Contains(def.Key)) keys.Add(def.Key);
-        }
-        return keys;
+        var perModel = plan.ModelNames.Select(name =>
+            new Physics.JunctionCurrentModel(Physics.BarrierModelCatalog.Create(name, plan.ModelOptions), plan.Parasitics).Parameters.Select(d => d.Key));
+        return [.. ResultSchema.ParameterKeys(perModel, withStandard: true)];
     }
 
     private static void KeepForReport(List<(int Index, FitResult Result, string? Plot)> kept, int index, FitResult result, string? plot)
@@ -396,22 +402,6 @@ internal static class BatchCommand
         if (Rank(result.Status) < Rank(kept[worst].Result.Status) ||
             (Rank(result.Status) == Rank(kept[worst].Result.Status) && index < kept[worst].Index)) kept[worst] = (index, result, plot);
     }
-
-    private static FitResult RowAsResult(ResultRow row) => new()
-    {
-        SourcePath = row.File,
-        Model = row.Model,
-        Status = row.Status,
-        Error = row.Error,
-        Warnings = row.Warnings,
-        Parameters = [.. row.Parameters.Select(p => new ParameterEstimate(p.Key, p.Key, "", p.Value ?? double.NaN, p.StandardError, p.Lower95, p.Upper95, p.StandardError is null))],
-        TransitionVoltageV = row.TransitionVoltageV,
-        Lot = row.Lot,
-        Wafer = row.Wafer,
-        DieX = row.DieX,
-        DieY = row.DieY,
-        Quality = row.ReducedChiSquare is double chi ? new FitQuality(0, 0, 0, double.NaN, chi, row.Status != FitStatus.Failed, "", "", "") : null,
-    };
 
     internal static HtmlReportSection LotSummarySection(IReadOnlyList<LotSummaryRow> lots)
     {

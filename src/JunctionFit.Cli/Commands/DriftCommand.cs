@@ -1,6 +1,7 @@
 using System.Collections.Immutable;
 using System.CommandLine;
 using System.Globalization;
+using JunctionFit.Results;
 using JunctionFit.Lots;
 using JunctionFit.Reporting;
 using JunctionFit.Storage;
@@ -21,9 +22,10 @@ internal static class DriftCommand
         var threshold = new Option<string[]>("--threshold") { Description = "practical threshold KEY=VALUE (absolute, in the key's unit) or KEY=N% (relative); repeatable" };
         var alpha = new Option<double>("--alpha") { Description = "family-wise significance level (Holm)", DefaultValueFactory = _ => 0.05 };
         var minDies = new Option<int>("--min-dies") { Description = "good dies a lot needs to be compared", DefaultValueFactory = _ => 3 };
+        var optionSet = OptionSetChoice.CreateOption();
         var command = new Command("drift", "Shift of each lot against a reference lot: Welch interval, Holm-corrected p-value, flag, trend charts.");
         command.Arguments.Add(files);
-        foreach (var o in new Option[] { reference, json, outDir, threshold, alpha, minDies, db, lotFilter }) command.Options.Add(o);
+        foreach (var o in new Option[] { reference, json, outDir, threshold, alpha, minDies, db, lotFilter, optionSet }) command.Options.Add(o);
         command.SetAction(parse =>
         {
             var paths = parse.GetValue(files) ?? [];
@@ -32,6 +34,7 @@ internal static class DriftCommand
             var rows = ReadResults(context, paths);
             if (rows is null) return ExitCodes.UsageOrInput;
             if (database is not null) rows = rows.Value.AddRange(ReadDatabase(context, database, parse.GetValue(lotFilter) ?? []));
+            var pooled = OptionSetChoice.Pool("drift", rows.Value, parse.GetValue(optionSet));
             var options = new DriftOptions(parse.GetValue(reference) ?? []);
             try
             {
@@ -54,7 +57,7 @@ internal static class DriftCommand
             }
             options = options with { Thresholds = thresholds };
             string dir = parse.GetValue(outDir) ?? (paths.Length > 0 ? Path.GetDirectoryName(Path.GetFullPath(paths[0]))! : Directory.GetCurrentDirectory());
-            var (result, _, charts) = LotAnalyses.Drift(rows.Value, options, dir);
+            var (result, _, charts) = LotAnalyses.Drift(pooled, options, dir);
             if (parse.GetValue(json))
             {
                 foreach (var r in result.Rows) context.Out.WriteLine(LotsJsonFormatter.FormatDrift(r));
@@ -81,7 +84,7 @@ internal static class DriftCommand
     {
         using var store = BatchCommand.OpenStore(context, database);
         var stored = lots.Count == 0 ? store.Query() : lots.SelectMany(l => store.Query(lot: l)).ToList();
-        return stored.Select(r => ResultRow.FromFitResult(r.Result)).ToList();
+        return stored.Select(r => r.ToRow()).ToList();
     }
 
     /// <summary>Reads results files; prints <c>path:line: reason</c> and returns null when one cannot be read.</summary>
@@ -135,6 +138,7 @@ internal static class ThicknessCommand
         {
             Description = $"with --cv: plausible CET - t_ox in nm, LO:HI; a wafer outside it is flagged (default {CetCrossCheck.DefaultLowerNm.ToString(CultureInfo.InvariantCulture)}:{CetCrossCheck.DefaultUpperNm.ToString(CultureInfo.InvariantCulture)})",
         };
+        var optionSet = OptionSetChoice.CreateOption();
         var fitOptions = new FitOptionSet();
         var read = new ReadOptionSet();
         var command = new Command("thickness", "Electrical minus ellipsometric thickness: bias, limits of agreement, per-wafer refit with d fixed (F-test). Give the batch's fit options.");
@@ -147,6 +151,7 @@ internal static class ThicknessCommand
         command.Options.Add(cv);
         command.Options.Add(cvArea);
         command.Options.Add(cetRange);
+        command.Options.Add(optionSet);
         fitOptions.AddTo(command);
         read.AddTo(command);
         command.SetAction(parse =>
@@ -159,10 +164,11 @@ internal static class ThicknessCommand
             }
             string ellipsometryPath = given[^1];
             string resultsPath = database is null ? given[0] : Path.Combine(Directory.GetCurrentDirectory(), "results.csv");
-            var rows = database is null
+            var read0 = database is null
                 ? DriftCommand.ReadResults(context, [resultsPath])
                 : [.. DriftCommand.ReadDatabase(context, database, [])];
-            if (rows is null) return ExitCodes.UsageOrInput;
+            if (read0 is null) return ExitCodes.UsageOrInput;
+            ImmutableArray<ResultRow>? rows = [.. OptionSetChoice.Pool("thickness", read0.Value, parse.GetValue(optionSet))];
             ImmutableArray<EllipsometryRow> ell;
             try
             {

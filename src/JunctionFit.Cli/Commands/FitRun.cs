@@ -103,7 +103,7 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
                 foreach (var row in r.ModelComparison)
                 {
                     string aicc = row.Aicc is double a ? a.ToString("0.00", System.Globalization.CultureInfo.InvariantCulture) : "-";
-                    context.Out.WriteLine($"  {row.Model,-16} {FitJsonFormatter.StatusText(row.Status),-9} {row.FreeParameters,2} {row.PointsUsed,6} {aicc,12}{(row.Chosen ? "  <- chosen" : "")}");
+                    context.Out.WriteLine($"  {row.Model,-16} {ResultSchema.StatusText(row.Status),-9} {row.FreeParameters,2} {row.PointsUsed,6} {aicc,12}{(row.Chosen ? "  <- chosen" : "")}");
                 }
             }
         }

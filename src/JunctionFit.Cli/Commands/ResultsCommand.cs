@@ -23,7 +23,9 @@ internal static class ResultsCommand
             var rows = store.Query(lot: parse.GetValue(lot), wafer: parse.GetValue(wafer), model: parse.GetValue(model));
             if (parse.GetValue(json)) StoredResultsWriter.WriteJsonLines(context.Out, rows);
             else StoredResultsWriter.WriteCsv(context.Out, rows);
-            context.Error.WriteLine($"junctionfit results: {rows.Count} result(s) from {store.Description}");
+            var sets = OptionSets.Of(rows.Select(r => r.ToRow()));
+            context.Error.WriteLine($"junctionfit results: {rows.Count} result(s) from {store.Description}" +
+                                    (sets.Length > 1 ? $" in {sets.Length} option sets (column option_set):{OptionSetChoice.List(sets)}" : ""));
             return ExitCodes.Success;
         });
         return command;

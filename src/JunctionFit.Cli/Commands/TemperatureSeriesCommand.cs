@@ -84,7 +84,7 @@ internal static class TemperatureSeriesCommand
                 context.Out.WriteLine("each curve alone:");
                 context.Out.Write(SummaryTableWriter.FormatConsoleTable(series.PerCurve));
                 context.Out.WriteLine();
-                context.Out.WriteLine($"joint fit over {series.TemperaturesK.Length} temperatures ({string.Join(", ", series.TemperaturesK.Select(t => $"{t:0.#} K"))}): status {FitJsonFormatter.StatusText(series.Joint.Status)}");
+                context.Out.WriteLine($"joint fit over {series.TemperaturesK.Length} temperatures ({string.Join(", ", series.TemperaturesK.Select(t => $"{t:0.#} K"))}): status {ResultSchema.StatusText(series.Joint.Status)}");
                 foreach (var p in series.Joint.Parameters)
                 {
                     string ci = p.Lower95 is double lo && p.Upper95 is double hi ? $" [{lo:G5}, {hi:G5}]" : p.IsFixed ? " (fixed)" : "";

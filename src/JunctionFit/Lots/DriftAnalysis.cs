@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using System.Globalization;
+using JunctionFit.Results;
 
 namespace JunctionFit.Lots;
 

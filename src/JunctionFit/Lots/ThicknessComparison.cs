@@ -1,6 +1,7 @@
 using System.Collections.Immutable;
 using System.Globalization;
 using MathNet.Numerics.Distributions;
+using JunctionFit.Results;
 
 namespace JunctionFit.Lots;
 
@@ -273,7 +274,7 @@ public static class ThicknessComparison
 
     private static string? ExclusionReason(ResultRow r, ThicknessMatchLevel level)
     {
-        if (!r.IsGood) return $"fit status {Reporting.FitJsonFormatter.StatusText(r.Status)}: only good fits are compared";
+        if (!r.IsGood) return $"fit status {Results.ResultSchema.StatusText(r.Status)}: only good fits are compared";
         if (r.ValueOf(ThicknessKey) is null) return "no electrical thickness in this row";
         if (string.IsNullOrWhiteSpace(r.Lot) || string.IsNullOrWhiteSpace(r.Wafer)) return "the row names no lot or no wafer";
         if (level == ThicknessMatchLevel.Site && (r.DieX is null || r.DieY is null)) return "the row has no die coordinates for site matching";

@@ -12,9 +12,6 @@ namespace JunctionFit.Reporting;
 /// </summary>
 public static class FitJsonFormatter
 {
-    /// <summary>Order of the leading parameter keys; others follow in model order.</summary>
-    private static readonly string[] LeadingKeys = ["barrier_height_eV", "thickness_nm", "area_m2", "mass_ratio"];
-
     private static readonly JsonWriterOptions WriterOptions = new() { Indented = false, SkipValidation = false };
 
     /// <summary>Formats a result as a single JSON line (no trailing newline).</summary>
@@ -33,7 +30,7 @@ public static class FitJsonFormatter
         w.WriteStartObject();
         w.WriteString("file", result.SourcePath);
         w.WriteString("model", result.Model);
-        w.WriteString("status", StatusText(result.Status));
+        w.WriteString("status", ResultSchema.StatusText(result.Status));
         if (result.Error is null) w.WriteNull("error"); else w.WriteString("error", result.Error);
         WriteStringOrNull(w, "status_reason", result.StatusReason);
         w.WriteStartArray("warnings");
@@ -41,15 +38,8 @@ public static class FitJsonFormatter
         w.WriteEndArray();
 
         w.WriteStartObject("parameters");
-        foreach (string key in LeadingKeys)
-        {
-            var p = result.Find(key);
-            if (p is not null) WriteParameter(w, p);
-        }
-        foreach (var p in result.Parameters)
-        {
-            if (Array.IndexOf(LeadingKeys, p.Key) < 0) WriteParameter(w, p);
-        }
+        // Table order of the schema: the standard keys first, the others in model order (a stable sort).
+        foreach (var p in result.Parameters.OrderBy(p => ResultSchema.KeyRank(p.Key))) WriteParameter(w, p);
         w.WriteEndObject();
 
         w.WriteStartObject("fit");
@@ -149,7 +139,7 @@ public static class FitJsonFormatter
             {
                 w.WriteStartObject();
                 w.WriteString("model", row.Model);
-                w.WriteString("status", StatusText(row.Status));
+                w.WriteString("status", ResultSchema.StatusText(row.Status));
                 w.WriteNumber("free_parameters", row.FreeParameters);
                 w.WriteNumber("points_used", row.PointsUsed);
                 WriteNumberOrNull(w, "rss", row.ResidualSumOfSquares);
@@ -173,21 +163,10 @@ public static class FitJsonFormatter
             WriteNumberOrNull(w, "flatband_voltage_V", cv.FlatBandVoltageV);
             w.WriteEndObject();
         }
-        WriteStringOrNull(w, "lot", result.Lot);
-        WriteStringOrNull(w, "wafer", result.Wafer);
-        if (result.DieX is int x) w.WriteNumber("die_x", x); else w.WriteNull("die_x");
-        if (result.DieY is int y) w.WriteNumber("die_y", y); else w.WriteNull("die_y");
+        ResultTableWriter.WriteJsonFields(w, ResultSchema.PlacementColumns, ResultSchema.Placement(result));
         w.WriteEndObject();
         w.Flush();
     }
-
-    /// <summary>The status word used in JSON and tables: ok, poor-fit or failed.</summary>
-    public static string StatusText(FitStatus status) => status switch
-    {
-        FitStatus.Ok => "ok",
-        FitStatus.PoorFit => "poor-fit",
-        _ => "failed",
-    };
 
     private static void WriteParameter(Utf8JsonWriter w, ParameterEstimate p)
     {

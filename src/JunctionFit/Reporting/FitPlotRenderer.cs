@@ -182,7 +182,7 @@ public static class FitPlotRenderer
         if (result.DieX is int x && result.DieY is int y) parts.Add(string.Create(Inv, $"die ({x}, {y})"));
         else if (result.DieX is int x1) parts.Add(string.Create(Inv, $"die x {x1}"));
         else if (result.DieY is int y1) parts.Add(string.Create(Inv, $"die y {y1}"));
-        parts.Add($"status: {StatusText(result.Status)}");
+        parts.Add($"status: {ResultSchema.StatusText(result.Status)}");
         if (result.Warnings.Length > 0) parts.Add(result.Warnings.Length == 1 ? "1 warning" : $"{result.Warnings.Length} warnings");
         return string.Join("   ·   ", parts);
     }
@@ -524,7 +524,7 @@ public static class FitPlotRenderer
         {
             lines.Add(new($"transition voltage {vt.ToString("0.###", Inv)} V", BoxLineKind.Detail));
         }
-        lines.Add(new($"status: {StatusText(result.Status)}", BoxLineKind.Status));
+        lines.Add(new($"status: {ResultSchema.StatusText(result.Status)}", BoxLineKind.Status));
         if (result.Warnings.Length > 0)
         {
             lines.Add(new("", BoxLineKind.Rule));
@@ -643,14 +643,6 @@ public static class FitPlotRenderer
     }
 
     // ---- text helpers -------------------------------------------------------------------------
-
-    internal static string StatusText(FitStatus status) => status switch
-    {
-        FitStatus.Ok => "ok",
-        FitStatus.PoorFit => "poor-fit",
-        FitStatus.Failed => "failed",
-        _ => status.ToString(),
-    };
 
     internal static string FileNameOf(string path)
     {

@@ -191,7 +191,7 @@ public static class HtmlReportWriter
         for (int i = 0; i < entries.Count; i++)
         {
             var r = entries[i].Result;
-            string status = FitPlotRenderer.StatusText(r.Status);
+            string status = ResultSchema.StatusText(r.Status);
             sb.Append("<tr>");
             if (entries[i].ShowSection)
             {
@@ -280,7 +280,7 @@ public static class HtmlReportWriter
     private static void AppendSection(StringBuilder sb, HtmlReportEntry entry, int number)
     {
         var r = entry.Result;
-        string status = FitPlotRenderer.StatusText(r.Status);
+        string status = ResultSchema.StatusText(r.Status);
         sb.Append("<section class=\"fit\" id=\"fit-").Append(number.ToString(Inv)).Append("\">\n<h2>")
           .Append(number.ToString(Inv)).Append(". ").Append(E(FitPlotRenderer.FileNameOf(r.SourcePath))).Append("</h2>\n");
         sb.Append("<p class=\"meta\">").Append(E(r.SourcePath)).Append(" · model ").Append(E(r.Model));

@@ -1,4 +1,5 @@
 using System.Globalization;
+using JunctionFit.Results;
 using JunctionFit.Lots;
 using OxyPlot;
 using OxyPlot.SkiaSharp;

@@ -40,19 +40,4 @@ internal static class SummaryRow
 
     /// <summary>The transition voltage for display, or an em dash.</summary>
     public static string TransitionText(FitResult r) => r.TransitionVoltageV is double v && double.IsFinite(v) ? v.ToString("0.###", Inv) : "—";
-
-    /// <summary>Union of parameter keys over all results, in order of first appearance.</summary>
-    public static List<string> ParameterKeys(IReadOnlyList<FitResult> results)
-    {
-        var keys = new List<string>();
-        var seen = new HashSet<string>(StringComparer.Ordinal);
-        foreach (var r in results)
-        {
-            foreach (var p in r.Parameters)
-            {
-                if (seen.Add(p.Key)) keys.Add(p.Key);
-            }
-        }
-        return keys;
-    }
 }

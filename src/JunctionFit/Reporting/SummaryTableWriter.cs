@@ -1,6 +1,5 @@
 using System.Globalization;
 using System.Text;
-using CsvHelper;
 using JunctionFit.Common;
 using JunctionFit.Results;
 
@@ -10,41 +9,39 @@ namespace JunctionFit.Reporting;
 /// The one-row-per-file summary as CSV (for spreadsheets and scripts) and as a fixed-width text table
 /// (for the console).
 /// <para>
-/// CSV columns, in order: <c>file, lot, wafer, die_x, die_y, model, status</c>; then for every parameter key K
-/// that occurs in any result (in order of first appearance): <c>K, K_stderr, K_lo, K_hi, K_fixed</c>; then
-/// <c>reduced_chi2, points_used, points_masked, transition_voltage_V, warnings, error</c>. Values are in the
-/// unit their key names (area in m²), written in the invariant culture with round-trip precision; an unknown
-/// value is an empty field; <c>K_fixed</c> is <c>true</c>/<c>false</c>; warnings are joined with <c>" | "</c>.
-/// Quoting follows RFC 4180 (fields with commas, quotes or line breaks are quoted, quotes doubled), lines end
-/// with CRLF, the encoding is UTF-8 without a byte-order mark.
+/// CSV columns (<see cref="ResultSchema"/> with <see cref="Groups"/>), in order: <c>file, lot, wafer, die_x, die_y, model,
+/// status</c>; then for every parameter key K that occurs in any result (the standard keys first, then others in order of
+/// first appearance): <c>K, K_stderr, K_lo, K_hi, K_fixed</c>; then <c>reduced_chi2, points_used, points_masked,
+/// transition_voltage_V, warnings, error</c>. Values are in the unit their key names (area in m²), written by
+/// <see cref="ResultTableWriter"/>; <c>K_fixed</c> is <c>true</c>/<c>false</c>; lines end with CRLF.
 /// </para>
 /// </summary>
 public static class SummaryTableWriter
 {
-    /// <summary>Separator between warnings inside one CSV field.</summary>
-    public const string WarningSeparator = " | ";
-
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
+
+    /// <summary>The optional column groups of summary.csv.</summary>
+    public const ResultColumnGroups Groups = ResultColumnGroups.Fixed | ResultColumnGroups.Points;
+
+    /// <summary>Line ending of summary.csv.</summary>
+    public const string NewLine = "\r\n";
+
+    /// <summary>The CSV columns for <paramref name="results"/>.</summary>
+    /// <param name="results">The results that will be written.</param>
+    /// <returns>Columns in order.</returns>
+    /// <exception cref="ArgumentNullException"><paramref name="results"/> is null.</exception>
+    public static IReadOnlyList<ResultColumn> CsvColumns(IReadOnlyList<FitResult> results)
+    {
+        ArgumentNullException.ThrowIfNull(results);
+        foreach (var r in results) ArgumentNullException.ThrowIfNull(r, nameof(results));
+        return ResultSchema.Columns(ResultSchema.ParameterKeys(results.Select(r => r.Parameters.Select(p => p.Key)), withStandard: false), Groups);
+    }
 
     /// <summary>The CSV header for <paramref name="results"/>.</summary>
     /// <param name="results">The results that will be written.</param>
     /// <returns>Column names in order.</returns>
     /// <exception cref="ArgumentNullException"><paramref name="results"/> is null.</exception>
-    public static IReadOnlyList<string> CsvHeader(IReadOnlyList<FitResult> results)
-    {
-        ArgumentNullException.ThrowIfNull(results);
-        var header = new List<string> { "file", "lot", "wafer", "die_x", "die_y", "model", "status" };
-        foreach (string key in SummaryRow.ParameterKeys(results))
-        {
-            header.Add(key);
-            header.Add(key + "_stderr");
-            header.Add(key + "_lo");
-            header.Add(key + "_hi");
-            header.Add(key + "_fixed");
-        }
-        header.AddRange(["reduced_chi2", "points_used", "points_masked", "transition_voltage_V", "warnings", "error"]);
-        return header;
-    }
+    public static IReadOnlyList<string> CsvHeader(IReadOnlyList<FitResult> results) => [.. CsvColumns(results).Select(c => c.Name)];
 
     /// <summary>The summary of <paramref name="results"/> as CSV text.</summary>
     /// <param name="results">One row per result, in the given order.</param>
@@ -64,41 +61,8 @@ public static class SummaryTableWriter
     public static void WriteCsv(Stream destination, IReadOnlyList<FitResult> results)
     {
         ArgumentNullException.ThrowIfNull(destination);
-        ArgumentNullException.ThrowIfNull(results);
-        foreach (var r in results) ArgumentNullException.ThrowIfNull(r, nameof(results));
-        var keys = SummaryRow.ParameterKeys(results);
-        var header = CsvHeader(results);
-        var fields = new string[header.Count];
-        using var csv = CsvWriter.Create(destination, CsvWriterOptions.Default, leaveOpen: true);
-        csv.WriteHeader([.. header]);
-        foreach (var r in results)
-        {
-            int f = 0;
-            fields[f++] = r.SourcePath;
-            fields[f++] = r.Lot ?? "";
-            fields[f++] = r.Wafer ?? "";
-            fields[f++] = SummaryRow.Number(r.DieX);
-            fields[f++] = SummaryRow.Number(r.DieY);
-            fields[f++] = r.Model;
-            fields[f++] = FitPlotRenderer.StatusText(r.Status);
-            foreach (string key in keys)
-            {
-                var p = r.Find(key);
-                fields[f++] = SummaryRow.Number(p?.Value);
-                fields[f++] = SummaryRow.Number(p?.StandardError);
-                fields[f++] = SummaryRow.Number(p?.Lower95);
-                fields[f++] = SummaryRow.Number(p?.Upper95);
-                fields[f++] = p is null ? "" : p.IsFixed ? "true" : "false";
-            }
-            fields[f++] = SummaryRow.Number(r.Quality?.ReducedChiSquare);
-            fields[f++] = SummaryRow.Number(r.Quality?.PointsUsed);
-            fields[f++] = SummaryRow.Number(r.Quality?.PointsMasked);
-            fields[f++] = SummaryRow.Number(r.TransitionVoltageV);
-            fields[f++] = string.Join(WarningSeparator, r.Warnings);
-            fields[f++] = r.Error ?? "";
-            csv.WriteRecord(fields);
-        }
-        csv.Flush();
+        var columns = CsvColumns(results);
+        ResultTableWriter.WriteCsv(destination, columns, results.Select(ResultRow.FromFitResult), NewLine);
     }
 
     /// <summary>Writes the CSV summary to <paramref name="path"/> atomically (see <see cref="AtomicFile"/>).</summary>
@@ -137,14 +101,14 @@ public static class SummaryTableWriter
             rows.Add(
             [
                 ShortenLeft(OneLine(r.SourcePath), maxFileWidth),
-                FitPlotRenderer.StatusText(r.Status),
+                ResultSchema.StatusText(r.Status),
                 ConsoleQuantity(r, SummaryRow.BarrierHeightKey),
                 ConsoleQuantity(r, SummaryRow.ThicknessKey),
                 ConsoleQuantity(r, SummaryRow.AreaKey),
                 SummaryRow.ChiText(r).Replace("—", "-", StringComparison.Ordinal),
                 SummaryRow.TransitionText(r).Replace("—", "-", StringComparison.Ordinal),
                 r.Warnings.Length.ToString(Inv),
-                r.Status == FitStatus.Ok ? "" : OneLine(r.StatusReason ?? r.Error ?? FitPlotRenderer.StatusText(r.Status)),
+                r.Status == FitStatus.Ok ? "" : OneLine(r.StatusReason ?? r.Error ?? ResultSchema.StatusText(r.Status)),
             ]);
         }
         var width = new int[header.Length];

@@ -179,6 +179,9 @@ internal static class Migrations
                 """,
                 "CREATE INDEX work_claim_active ON work_claim (claimed_by) WHERE state = 'claimed'",
             ]),
+        new Migration(3, "index on the options hash: rows are told apart and grouped by the option set that made them",
+            Sqlite: ["CREATE INDEX fit_result_options ON fit_result (options_hash, model)"],
+            PostgreSql: ["CREATE INDEX fit_result_options ON fit_result (options_hash, model)"]),
     ];
 
     /// <summary>The newest version.</summary>

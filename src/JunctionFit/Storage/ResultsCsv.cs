@@ -1,23 +1,22 @@
 using System.Collections.Immutable;
 using System.Globalization;
-using System.Text;
 using JunctionFit.Common;
-using JunctionFit.Lots;
-using JunctionFit.Reporting;
 using JunctionFit.Results;
 
 namespace JunctionFit.Storage;
 
 /// <summary>
-/// The lot results table, <c>OUTDIR/results.csv</c>: one row per I–V file, comma-separated, UTF-8 without BOM,
-/// invariant-culture numbers in shortest round-trip form, empty cells for unknown values.
+/// The lot results table, <c>OUTDIR/results.csv</c>: one row per I–V file, written by <see cref="ResultTableWriter"/>
+/// with the columns of <see cref="ResultSchema"/> and the groups <see cref="Groups"/> (<c>option_set</c>, <c>plot</c>);
+/// lines end with a line feed.
 /// <para>Columns, in order:</para>
 /// <list type="number">
 /// <item><c>file, lot, wafer, die_x, die_y, model, status</c> (status: <c>ok</c>, <c>poor-fit</c>, <c>failed</c>);</item>
 /// <item>for each parameter key K — <c>barrier_height_eV, thickness_nm, area_m2, mass_ratio</c> always, then any
 /// other key — the four columns <c>K, K_stderr, K_lo, K_hi</c> (value, standard error, 95 % interval), in the
 /// key's unit; a fixed parameter has its value and empty stderr/lo/hi;</item>
-/// <item><c>reduced_chi2, transition_voltage_V, warnings, error</c>; warnings are joined with <c> | </c>.</item>
+/// <item><c>reduced_chi2, transition_voltage_V, warnings, error, option_set, plot</c>; warnings are joined with <c> | </c>,
+/// the option set's lines with <c>; </c>, the plot is relative to the output folder (empty when none was written).</item>
 /// </list>
 /// Reading accepts extra columns (ignored) and any column order; a missing required column, a row with the wrong
 /// number of fields or a cell that is not a number throws <see cref="ResultsFormatException"/> naming file and line.
@@ -27,36 +26,23 @@ public static class ResultsCsv
     /// <summary>File name inside the output folder.</summary>
     public const string FileName = "results.csv";
 
-    /// <summary>Separator of the warnings inside their cell.</summary>
-    public const string WarningSeparator = " | ";
+    /// <summary>Line ending of the file.</summary>
+    public const string NewLine = "\n";
 
-    /// <summary>Columns before the parameters.</summary>
-    public static ImmutableArray<string> LeadingColumns { get; } = ["file", "lot", "wafer", "die_x", "die_y", "model", "status"];
+    /// <summary>The optional column groups of results.csv.</summary>
+    public const ResultColumnGroups Groups = ResultColumnGroups.OptionSet | ResultColumnGroups.Plot;
 
-    /// <summary>Columns after the parameters.</summary>
-    public static ImmutableArray<string> TrailingColumns { get; } = ["reduced_chi2", "transition_voltage_V", "warnings", "error"];
-
-    /// <summary>Columns a file must have to be read (the <c>error</c> column is optional).</summary>
+    /// <summary>Columns a file must have to be read (<c>error</c>, <c>option_set</c> and <c>plot</c> are optional).</summary>
     public static ImmutableArray<string> RequiredColumns { get; } =
-        ["file", "lot", "wafer", "die_x", "die_y", "model", "status", "reduced_chi2", "transition_voltage_V", "warnings"];
+        [.. ResultSchema.LeadingNames, .. ResultSchema.TrailingNames.Where(n => n != "error")];
 
-    private static readonly string[] ParameterSuffixes = ["", "_stderr", "_lo", "_hi"];
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
     /// <summary>The header for <paramref name="parameterKeys"/>.</summary>
     /// <param name="parameterKeys">Parameter keys in column order.</param>
     /// <returns>All column names.</returns>
     public static ImmutableArray<string> Columns(IReadOnlyList<string> parameterKeys)
-    {
-        ArgumentNullException.ThrowIfNull(parameterKeys);
-        var columns = new List<string>(LeadingColumns);
-        foreach (string key in parameterKeys)
-        {
-            foreach (string suffix in ParameterSuffixes) columns.Add(key + suffix);
-        }
-        columns.AddRange(TrailingColumns);
-        return [.. columns];
-    }
+        => [.. ResultSchema.Columns(parameterKeys, Groups).Select(c => c.Name)];
 
     /// <summary>The table as text (header and one line per row).</summary>
     /// <param name="rows">Rows in output order.</param>
@@ -65,86 +51,27 @@ public static class ResultsCsv
     public static string Format(IReadOnlyList<ResultRow> rows)
     {
         ArgumentNullException.ThrowIfNull(rows);
-        var keys = ResultRow.ParameterKeysOf(rows);
-        var sb = new StringBuilder(256 * (rows.Count + 1));
-        CsvText.WriteRecord(sb, Columns(keys));
-        var fields = new List<string>(LeadingColumns.Length + 4 * keys.Length + TrailingColumns.Length);
-        foreach (var row in rows) AppendRow(sb, row, keys, fields);
-        return sb.ToString();
+        return ResultTableWriter.FormatCsv(ResultSchema.Columns(ResultRow.ParameterKeysOf(rows), Groups), rows, NewLine);
     }
 
-    /// <summary>The table as <see cref="Format(IReadOnlyList{ResultRow})"/> does, with further columns after the standard ones.</summary>
-    /// <param name="rows">Rows in output order.</param>
-    /// <param name="extraColumns">Names of the added columns.</param>
-    /// <param name="extraCells">The added cells of row i (as many as <paramref name="extraColumns"/>).</param>
-    /// <returns>CSV text ending with a line feed.</returns>
-    internal static string Format(IReadOnlyList<ResultRow> rows, IReadOnlyList<string> extraColumns, Func<int, IReadOnlyList<string>> extraCells)
-    {
-        ArgumentNullException.ThrowIfNull(rows);
-        var keys = ResultRow.ParameterKeysOf(rows);
-        var sb = new StringBuilder(256 * (rows.Count + 1));
-        CsvText.WriteRecord(sb, [.. Columns(keys), .. extraColumns]);
-        var fields = new List<string>(LeadingColumns.Length + 4 * keys.Length + TrailingColumns.Length + extraColumns.Count);
-        for (int i = 0; i < rows.Count; i++)
-        {
-            var extra = extraCells(i);
-            if (extra.Count != extraColumns.Count) throw new ArgumentException($"row {i} has {extra.Count} extra cells for {extraColumns.Count} columns", nameof(extraCells));
-            AppendRow(sb, rows[i], keys, fields, extra);
-        }
-        return sb.ToString();
-    }
-
-    /// <summary>The header line (with its line feed) for streaming output with fixed parameter keys.</summary>
-    public static string FormatHeader(IReadOnlyList<string> parameterKeys)
-    {
-        var sb = new StringBuilder(512);
-        CsvText.WriteRecord(sb, Columns(parameterKeys));
-        return sb.ToString();
-    }
-
-    /// <summary>One row (with its line feed) for streaming output; parameters missing from the row are empty cells.</summary>
-    public static string FormatRow(ResultRow row, IReadOnlyList<string> parameterKeys)
-    {
-        ArgumentNullException.ThrowIfNull(row);
-        var sb = new StringBuilder(512);
-        AppendRow(sb, row, parameterKeys, new List<string>(LeadingColumns.Length + 4 * parameterKeys.Count + TrailingColumns.Length));
-        return sb.ToString();
-    }
-
-    private static void AppendRow(StringBuilder sb, ResultRow row, IReadOnlyList<string> keys, List<string> fields, IReadOnlyList<string>? extra = null)
-    {
-        {
-            fields.Clear();
-            fields.Add(OneLine(row.File));
-            fields.Add(OneLine(row.Lot ?? ""));
-            fields.Add(OneLine(row.Wafer ?? ""));
-            fields.Add(CsvText.Integer(row.DieX));
-            fields.Add(CsvText.Integer(row.DieY));
-            fields.Add(OneLine(row.Model));
-            fields.Add(FitJsonFormatter.StatusText(row.Status));
-            foreach (string key in keys)
-            {
-                var p = row.Find(key);
-                fields.Add(CsvText.Number(p?.Value));
-                fields.Add(CsvText.Number(p?.StandardError));
-                fields.Add(CsvText.Number(p?.Lower95));
-                fields.Add(CsvText.Number(p?.Upper95));
-            }
-            fields.Add(CsvText.Number(row.ReducedChiSquare));
-            fields.Add(CsvText.Number(row.TransitionVoltageV));
-            fields.Add(string.Join(WarningSeparator, row.Warnings.Select(w => OneLine(w).Replace(WarningSeparator, " / ", StringComparison.Ordinal))));
-            fields.Add(OneLine(row.Error ?? ""));
-            if (extra is not null) foreach (string cell in extra) fields.Add(OneLine(cell));
-            CsvText.WriteRecord(sb, fields);
-        }
-    }
+    /// <summary>Starts results.csv on <paramref name="destination"/> for streaming output with fixed parameter keys (the header is written).</summary>
+    /// <param name="destination">Where the bytes go; stays open.</param>
+    /// <param name="parameterKeys">Parameter keys in column order; a parameter missing from a row is empty cells.</param>
+    /// <returns>The table; write rows, then dispose.</returns>
+    public static ResultCsvStream Open(Stream destination, IReadOnlyList<string> parameterKeys)
+        => new(destination, ResultSchema.Columns(parameterKeys, Groups), NewLine);
 
     /// <summary>Writes the table to <paramref name="path"/> atomically (<see cref="AtomicFile"/>).</summary>
     /// <param name="path">Target file, usually <c>OUTDIR/results.csv</c>; its directory is created when missing.</param>
     /// <param name="rows">Rows in output order.</param>
     /// <exception cref="ArgumentException"><paramref name="path"/> is empty or names a directory.</exception>
     /// <exception cref="IOException">The file could not be written; an existing file is left unchanged.</exception>
-    public static void Write(string path, IReadOnlyList<ResultRow> rows) => AtomicFile.WriteAllText(path, Format(rows));
+    public static void Write(string path, IReadOnlyList<ResultRow> rows)
+    {
+        ArgumentNullException.ThrowIfNull(rows);
+        var columns = ResultSchema.Columns(ResultRow.ParameterKeysOf(rows), Groups);
+        AtomicFile.Write(path, stream => ResultTableWriter.WriteCsv(stream, columns, rows, NewLine));
+    }
 
     /// <summary>Reads a results file.</summary>
     /// <param name="path">The file.</param>
@@ -234,13 +161,13 @@ public static class ResultsCsv
         foreach (var (name, _) in index.OrderBy(kv => kv.Value))
         {
             string? key = null;
-            foreach (string suffix in ParameterSuffixes.AsSpan(1))
+            foreach (string suffix in ResultSchema.ParameterSuffixes.AsSpan()[1..])
             {
                 if (name.EndsWith(suffix, StringComparison.Ordinal) && name.Length > suffix.Length) key = name[..^suffix.Length];
             }
             if (key is null || keys.Contains(key)) continue;
             if (!index.ContainsKey(key + "_stderr") && !index.ContainsKey(key)) continue; // e.g. a "..._hi" column of something else
-            var absent = ParameterSuffixes.Select(s => key + s).Where(c => !index.ContainsKey(c)).ToList();
+            var absent = ResultSchema.ParameterSuffixes.Select(s => key + s).Where(c => !index.ContainsKey(c)).ToList();
             if (absent.Count > 0)
             {
                 throw new ResultsFormatException(path, header.Line,
@@ -249,7 +176,7 @@ public static class ResultsCsv
             }
             keys.Add(key);
         }
-        return [.. keys.OrderBy(ResultRow.KeyRank)];
+        return [.. keys.OrderBy(ResultSchema.KeyRank)];
     }
 
     private static ResultRow ParseRow(CsvText.Record record, Dictionary<string, int> index, List<string> keys, int? errorColumn, string path)
@@ -265,7 +192,8 @@ public static class ResultsCsv
             double? se = Number(record, index, key + "_stderr", path);
             double? lo = Number(record, index, key + "_lo", path);
             double? hi = Number(record, index, key + "_hi", path);
-            if (value is not null || se is not null || lo is not null || hi is not null) parameters.Add(new RowParameter(key, value, se, lo, hi));
+            bool? isFixed = index.TryGetValue(key + ResultSchema.FixedSuffix, out int fc) ? Boolean(record, fc, key + ResultSchema.FixedSuffix, path) : null;
+            if (value is not null || se is not null || lo is not null || hi is not null) parameters.Add(new RowParameter(key, value, se, lo, hi) { IsFixed = isFixed });
         }
         string warnings = Cell("warnings");
         string? error = errorColumn is int ec ? record.Fields[ec].Trim() : null;
@@ -281,8 +209,12 @@ public static class ResultsCsv
             Parameters = [.. parameters],
             ReducedChiSquare = Number(record, index, "reduced_chi2", path),
             TransitionVoltageV = Number(record, index, "transition_voltage_V", path),
-            Warnings = warnings.Length == 0 ? [] : [.. warnings.Split(WarningSeparator, StringSplitOptions.TrimEntries | StringSplitOptions.RemoveEmptyEntries)],
+            Warnings = warnings.Length == 0 ? [] : [.. warnings.Split(ResultSchema.WarningSeparator, StringSplitOptions.TrimEntries | StringSplitOptions.RemoveEmptyEntries)],
             Error = string.IsNullOrEmpty(error) ? null : error,
+            OptionSet = index.TryGetValue("option_set", out int oc) ? ResultSchema.OptionSetFromCell(record.Fields[oc]) : null,
+            Plot = index.TryGetValue("plot", out int pc) ? NullIfEmpty(record.Fields[pc].Trim()) : null,
+            PointsUsed = index.ContainsKey("points_used") ? Integer(record, index, "points_used", path) : null,
+            PointsMasked = index.ContainsKey("points_masked") ? Integer(record, index, "points_masked", path) : null,
         };
     }
 
@@ -290,13 +222,17 @@ public static class ResultsCsv
     {
         int col = index["status"];
         string text = record.Fields[col].Trim();
-        return text.ToLowerInvariant() switch
-        {
-            "ok" => FitStatus.Ok,
-            "poor-fit" => FitStatus.PoorFit,
-            "failed" => FitStatus.Failed,
-            _ => throw new ResultsFormatException(path, record.Line, $"status '{text}' is not ok, poor-fit or failed", col + 1, record.Raw),
-        };
+        return ResultSchema.TryParseStatus(text, out var status)
+            ? status
+            : throw new ResultsFormatException(path, record.Line, $"status '{text}' is not ok, poor-fit or failed", col + 1, record.Raw);
+    }
+
+    private static bool? Boolean(CsvText.Record record, int col, string column, string path)
+    {
+        string text = record.Fields[col].Trim();
+        if (text.Length == 0) return null;
+        if (bool.TryParse(text, out bool b)) return b;
+        throw new ResultsFormatException(path, record.Line, $"'{text}' in column {column} is not true or false", col + 1, record.Raw);
     }
 
     private static double? Number(CsvText.Record record, Dictionary<string, int> index, string column, string path)
@@ -318,9 +254,4 @@ public static class ResultsCsv
     }
 
     private static string? NullIfEmpty(string s) => s.Length == 0 ? null : s;
-
-    /// <summary>Line breaks become spaces, so every record stays on one line of the file.</summary>
-    private static string OneLine(string s) => s.Contains('\n', StringComparison.Ordinal) || s.Contains('\r', StringComparison.Ordinal)
-        ? s.Replace("\r\n", " ", StringComparison.Ordinal).Replace('\n', ' ').Replace('\r', ' ')
-        : s;
 }

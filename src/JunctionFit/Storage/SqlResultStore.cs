@@ -5,7 +5,6 @@ using System.Data.Common;
 using System.Globalization;
 using System.Text;
 using System.Text.Json;
-using JunctionFit.Reporting;
 using JunctionFit.Results;
 
 namespace JunctionFit.Storage;
@@ -611,7 +610,7 @@ internal abstract class SqlResultStore : IResultStore
                 object?[] v =
                 [
                     row.Key.FileSha256, row.Key.Model, row.Key.OptionsHash, row.OptionsText, r.SourcePath, r.Lot, r.Wafer,
-                    r.DieX, r.DieY, FitJsonFormatter.StatusText(r.Status), r.Error,
+                    r.DieX, r.DieY, ResultSchema.StatusText(r.Status), r.Error,
                     q?.PointsUsed, q?.PointsMasked, q?.Iterations, Finite(q?.ResidualSumOfSquares), Finite(q?.ReducedChiSquare), q?.Converged,
                     q?.StopReason, q?.CovarianceScaling, q?.IntervalMethod,
                     Finite(r.TransitionVoltageV), WarningsJson(r.Warnings), CorrelationJson(r), r.Parameters.Length,
@@ -882,13 +881,9 @@ internal abstract class SqlResultStore : IResultStore
 
     private static double? DoubleOr(DbDataReader r, int i) => r.IsDBNull(i) ? null : r.GetDouble(i);
 
-    private static FitStatus ParseStatus(string text) => text switch
-    {
-        "ok" => FitStatus.Ok,
-        "poor-fit" => FitStatus.PoorFit,
-        "failed" => FitStatus.Failed,
-        _ => throw new ResultStoreException($"status '{text}' in the database is not ok, poor-fit or failed"),
-    };
+    private static FitStatus ParseStatus(string text) => ResultSchema.TryParseStatus(text, out var status)
+        ? status
+        : throw new ResultStoreException($"status '{text}' in the database is not ok, poor-fit or failed");
 
     private static string WarningsJson(ImmutableArray<string> warnings)
     {

@@ -95,6 +95,10 @@ public sealed record StoredResult
     /// <summary>The identity.</summary>
     public ResultKey Key { get; }
 
+    /// <summary>The stored result as a table row: the fit, who fitted it and when, and its option set (<see cref="OptionsText"/>).</summary>
+    /// <returns>The row.</returns>
+    public ResultRow ToRow() => ResultRow.FromFitResult(Result) with { FittedBy = FittedBy, FittedAt = FittedAt, OptionSet = OptionsText };
+
     /// <summary>The canonical options text.</summary>
     public string OptionsText { get; }
 

@@ -3,81 +3,53 @@ using System.Collections.Immutable;
 using System.Globalization;
 using System.Text;
 using System.Text.Json;
-using JunctionFit.Reporting;
 using JunctionFit.Results;
 
 namespace JunctionFit.Storage;
 
 /// <summary>
-/// Stored results as the <c>results</c> command prints them: CSV with the columns of a batch's <c>results.csv</c> followed
-/// by <c>fitted_by, fitted_at</c>, or one JSON object per line.
+/// Stored results as the <c>results</c> command prints them, through the columns of <see cref="ResultSchema"/>: CSV with
+/// the columns of a batch's <c>results.csv</c> without <c>plot</c> (the database keeps no plot) and with
+/// <c>fitted_by, fitted_at</c> before <c>option_set</c>, or one JSON object per line.
 /// <para>
 /// CSV columns, in order: <c>file, lot, wafer, die_x, die_y, model, status</c>; for each parameter key K —
 /// <c>barrier_height_eV, thickness_nm, area_m2, mass_ratio</c> always, then any other key in order of first appearance —
 /// <c>K, K_stderr, K_lo, K_hi</c> in the key's unit; then <c>reduced_chi2, transition_voltage_V, warnings, error</c>; then
-/// <see cref="WorkColumns"/>: <c>fitted_by</c> (the worker, <c>host:pid</c> or <c>NAME@host:pid</c>) and <c>fitted_at</c>
-/// (ISO 8601 UTC). Numbers are invariant shortest round-trip text, an unknown value is an empty cell, warnings are joined with
-/// <c>" | "</c> (a <c>" | "</c> inside a warning becomes <c>" / "</c>), line breaks inside a cell become spaces. Quoting
-/// follows RFC 4180 (a cell with a comma, a quote, a line break or an edge space is quoted, quotes doubled); lines end
-/// with a line feed.
+/// <c>fitted_by</c> (the worker, <c>host:pid</c> or <c>NAME@host:pid</c>), <c>fitted_at</c> (ISO 8601 UTC) and
+/// <c>option_set</c> (the canonical options text, lines joined with <c>"; "</c>). Cells are written by
+/// <see cref="ResultTableWriter"/>; lines end with a line feed.
 /// </para>
 /// <para>
-/// A JSON line has the same keys in the same order (numbers as numbers, unknown as <c>null</c>, <c>warnings</c> as an
-/// array, <c>error</c> null unless failed), followed by <c>points_used, points_masked, file_sha256, options_hash, run_id,
-/// run_started_utc, tool_version, host, stored_utc, fitted_by, fitted_at</c>.
+/// A JSON line has the same keys with <c>points_used, points_masked</c> after <c>reduced_chi2</c> (numbers as numbers,
+/// unknown as <c>null</c>, <c>warnings</c> as an array, <c>error</c> null unless failed), followed by <c>file_sha256,
+/// options_hash, run_id, run_started_utc, tool_version, host, stored_utc</c>.
 /// </para>
 /// </summary>
 public static class StoredResultsWriter
 {
-    /// <summary>The four parameter keys every table has, in this order.</summary>
-    public static ImmutableArray<string> StandardKeys { get; } = ["barrier_height_eV", "thickness_nm", "area_m2", "mass_ratio"];
+    /// <summary>The optional column groups of the CSV output.</summary>
+    public const ResultColumnGroups CsvGroups = ResultColumnGroups.Work | ResultColumnGroups.OptionSet;
 
-    /// <summary>Separator of the warnings inside their cell.</summary>
-    public const string WarningSeparator = " | ";
-
-    private static readonly string[] Leading = ["file", "lot", "wafer", "die_x", "die_y", "model", "status"];
-    private static readonly string[] Trailing = ["reduced_chi2", "transition_voltage_V", "warnings", "error"];
-
-    /// <summary>Columns after those of results.csv: who fitted the result and when.</summary>
-    public static ImmutableArray<string> WorkColumns { get; } = ["fitted_by", "fitted_at"];
-    private static readonly string[] Suffixes = ["", "_stderr", "_lo", "_hi"];
-    private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
+    /// <summary>The optional column groups of the JSON output.</summary>
+    public const ResultColumnGroups JsonGroups = ResultColumnGroups.Points | ResultColumnGroups.Work | ResultColumnGroups.OptionSet;
 
     /// <summary>Parameter keys in column order: the standard four, then others in order of first appearance.</summary>
     /// <param name="rows">The rows.</param>
     /// <returns>The keys.</returns>
-    /// <exception cref="ArgumentNullException"><paramref name="rows"/> is null.</exception>
+    /// <exception cref="ArgumentNullException"><paramref name="rows"/> or a row is null.</exception>
     public static ImmutableArray<string> ParameterKeys(IReadOnlyList<StoredResult> rows)
     {
         ArgumentNullException.ThrowIfNull(rows);
-        var keys = new List<string>(StandardKeys);
-        var seen = new HashSet<string>(StandardKeys, StringComparer.Ordinal);
-        foreach (var row in rows)
-        {
-            ArgumentNullException.ThrowIfNull(row, nameof(rows));
-            foreach (var p in row.Result.Parameters)
-            {
-                if (seen.Add(p.Key)) keys.Add(p.Key);
-            }
-        }
-        return [.. keys];
+        foreach (var row in rows) ArgumentNullException.ThrowIfNull(row, nameof(rows));
+        return ResultSchema.ParameterKeys(rows.Select(r => r.Result.Parameters.Select(p => p.Key)), withStandard: true);
     }
 
-    /// <summary>The columns of results.csv for <paramref name="parameterKeys"/> (the CSV output adds <see cref="WorkColumns"/>).</summary>
+    /// <summary>The CSV column names for <paramref name="parameterKeys"/>.</summary>
     /// <param name="parameterKeys">Keys from <see cref="ParameterKeys"/>.</param>
     /// <returns>Column names in order.</returns>
     /// <exception cref="ArgumentNullException"><paramref name="parameterKeys"/> is null.</exception>
     public static ImmutableArray<string> Columns(IReadOnlyList<string> parameterKeys)
-    {
-        ArgumentNullException.ThrowIfNull(parameterKeys);
-        var columns = new List<string>(Leading);
-        foreach (string key in parameterKeys)
-        {
-            foreach (string suffix in Suffixes) columns.Add(key + suffix);
-        }
-        columns.AddRange(Trailing);
-        return [.. columns];
-    }
+        => [.. ResultSchema.Columns(parameterKeys, CsvGroups).Select(c => c.Name)];
 
     /// <summary>The rows as CSV text, header first.</summary>
     /// <param name="rows">Rows in output order.</param>
@@ -85,7 +57,7 @@ public static class StoredResultsWriter
     /// <exception cref="ArgumentNullException"><paramref name="rows"/> or a row is null.</exception>
     public static string FormatCsv(IReadOnlyList<StoredResult> rows)
     {
-        using var w = new StringWriter(Inv);
+        using var w = new StringWriter(CultureInfo.InvariantCulture);
         WriteCsv(w, rows);
         return w.ToString();
     }
@@ -96,11 +68,11 @@ public static class StoredResultsWriter
     /// <exception cref="ArgumentNullException">An argument or a row is null.</exception>
     public static void WriteCsv(TextWriter output, IReadOnlyList<StoredResult> rows)
     {
-        // One writer for results.csv everywhere: the rows go through the same formatter as batch's file.
         ArgumentNullException.ThrowIfNull(output);
-        ArgumentNullException.ThrowIfNull(rows);
-        output.Write(ResultsCsv.Format([.. rows.Select(r => Lots.ResultRow.FromFitResult(r.Result))], WorkColumns,
-            i => [rows[i].FittedBy ?? "", rows[i].FittedAt is DateTimeOffset t ? Time(t) : ""]));
+        var columns = ResultSchema.Columns(ParameterKeys(rows), CsvGroups);
+        using var buffer = new MemoryStream();
+        ResultTableWriter.WriteCsv(buffer, columns, rows.Select(r => r.ToRow()), ResultsCsv.NewLine);
+        output.Write(new UTF8Encoding(false).GetString(buffer.GetBuffer(), 0, (int)buffer.Length));
     }
 
     /// <summary>Writes one JSON object per row, each on its own line.</summary>
@@ -127,85 +99,20 @@ public static class StoredResultsWriter
     {
         ArgumentNullException.ThrowIfNull(row);
         parameterKeys ??= ParameterKeys([row]);
-        var r = row.Result;
         var buffer = new ArrayBufferWriter<byte>(1024);
         using (var w = new Utf8JsonWriter(buffer))
         {
             w.WriteStartObject();
-            w.WriteString("file", r.SourcePath);
-            StringOrNull(w, "lot", r.Lot);
-            StringOrNull(w, "wafer", r.Wafer);
-            IntOrNull(w, "die_x", r.DieX);
-            IntOrNull(w, "die_y", r.DieY);
-            w.WriteString("model", r.Model);
-            w.WriteString("status", FitJsonFormatter.StatusText(r.Status));
-            foreach (string key in parameterKeys)
-            {
-                var p = r.Find(key);
-                NumberOrNull(w, key, p?.Value);
-                NumberOrNull(w, key + "_stderr", p?.StandardError);
-                NumberOrNull(w, key + "_lo", p?.Lower95);
-                NumberOrNull(w, key + "_hi", p?.Upper95);
-            }
-            NumberOrNull(w, "reduced_chi2", r.Quality?.ReducedChiSquare);
-            NumberOrNull(w, "transition_voltage_V", r.TransitionVoltageV);
-            w.WriteStartArray("warnings");
-            foreach (string warning in r.Warnings) w.WriteStringValue(warning);
-            w.WriteEndArray();
-            StringOrNull(w, "error", r.Error);
-            IntOrNull(w, "points_used", r.Quality?.PointsUsed);
-            IntOrNull(w, "points_masked", r.Quality?.PointsMasked);
+            ResultTableWriter.WriteJsonFields(w, ResultSchema.Columns(parameterKeys, JsonGroups), row.ToRow());
             w.WriteString("file_sha256", row.Key.FileSha256);
             w.WriteString("options_hash", row.Key.OptionsHash);
             w.WriteString("run_id", row.Run.RunId);
-            w.WriteString("run_started_utc", row.Run.StartedUtc.ToUniversalTime().ToString("O", Inv));
+            w.WriteString("run_started_utc", ResultSchema.TimeText(row.Run.StartedUtc));
             w.WriteString("tool_version", row.Run.ToolVersion);
-            StringOrNull(w, "host", row.Run.Host);
-            StringOrNull(w, "stored_utc", row.StoredUtc?.ToUniversalTime().ToString("O", Inv));
-            StringOrNull(w, "fitted_by", row.FittedBy);
-            StringOrNull(w, "fitted_at", row.FittedAt is DateTimeOffset t ? Time(t) : null);
+            if (row.Run.Host is null) w.WriteNull("host"); else w.WriteString("host", row.Run.Host);
+            if (row.StoredUtc is DateTimeOffset t) w.WriteString("stored_utc", ResultSchema.TimeText(t)); else w.WriteNull("stored_utc");
             w.WriteEndObject();
         }
         return Encoding.UTF8.GetString(buffer.WrittenSpan);
-    }
-
-    private static void AppendRecord(StringBuilder sb, IReadOnlyList<string> fields)
-    {
-        for (int i = 0; i < fields.Count; i++)
-        {
-            if (i > 0) sb.Append(',');
-            string f = fields[i];
-            bool quote = f.Length > 0 && (f.AsSpan().IndexOfAny(",\"\r\n") >= 0 || f[0] == ' ' || f[^1] == ' ');
-            if (quote) sb.Append('"').Append(f.Replace("\"", "\"\"", StringComparison.Ordinal)).Append('"');
-            else sb.Append(f);
-        }
-        sb.Append('\n');
-    }
-
-    private static string CellWarning(string warning) => OneLine(warning).Replace(WarningSeparator, " / ", StringComparison.Ordinal);
-
-    private static string OneLine(string s) => s.Contains('\n', StringComparison.Ordinal) || s.Contains('\r', StringComparison.Ordinal)
-        ? s.Replace("\r\n", " ", StringComparison.Ordinal).Replace('\n', ' ').Replace('\r', ' ')
-        : s;
-
-    private static string Time(DateTimeOffset t) => t.ToUniversalTime().ToString("O", Inv);
-
-    private static string Number(double? x) => x is double v ? v.ToString("R", Inv) : "";
-
-    private static string Integer(int? x) => x is int v ? v.ToString(Inv) : "";
-
-    private static void NumberOrNull(Utf8JsonWriter w, string name, double? value)
-    {
-        if (value is double v && double.IsFinite(v)) w.WriteNumber(name, v); else w.WriteNull(name);
-    }
-
-    private static void IntOrNull(Utf8JsonWriter w, string name, int? value)
-    {
-        if (value is int v) w.WriteNumber(name, v); else w.WriteNull(name);
-    }
-
-    private static void StringOrNull(Utf8JsonWriter w, string name, string? value)
-    {
-        if (value is null) w.WriteNull(name); else w.WriteString(name, value);
     }
 }

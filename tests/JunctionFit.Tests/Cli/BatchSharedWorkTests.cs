@@ -138,7 +138,7 @@ public partial class BatchSharedWorkTests
         var (code, csv, err) = CliRunner.Run("results", "--db", db, "--lot", lot, "--csv");
         Assert.True(code == 0, err);
         var csvLines = csv.Split('\n', StringSplitOptions.RemoveEmptyEntries);
-        Assert.EndsWith(",error,fitted_by,fitted_at", csvLines[0], StringComparison.Ordinal);
+        Assert.EndsWith(",error,fitted_by,fitted_at,option_set", csvLines[0], StringComparison.Ordinal);
         Assert.Equal(byB, csvLines.Count(l => l.Contains(",B@", StringComparison.Ordinal)));
     }
 
@@ -199,10 +199,10 @@ public partial class BatchSharedWorkTests
         var (rc, csv, rerr) = CliRunner.Run("results", "--db", db, "--csv");
         Assert.True(rc == 0, rerr);
         var lines = csv.Split('\n', StringSplitOptions.RemoveEmptyEntries);
-        Assert.EndsWith(",fitted_by,fitted_at", lines[0], StringComparison.Ordinal);
+        Assert.EndsWith(",fitted_by,fitted_at,option_set", lines[0], StringComparison.Ordinal);
         Assert.All(lines.Skip(1), l => Assert.Contains($",node-1@{Environment.MachineName}:{Environment.ProcessId},", l, StringComparison.Ordinal));
         // The batch's own results.csv keeps exactly its columns.
-        Assert.EndsWith(",warnings,error", File.ReadLines(dir.File("out/results.csv")).First(), StringComparison.Ordinal);
+        Assert.EndsWith(",warnings,error,option_set,plot", File.ReadLines(dir.File("out/results.csv")).First(), StringComparison.Ordinal);
     }
 
     [PostgresFact]

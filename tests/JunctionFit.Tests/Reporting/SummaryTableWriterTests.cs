@@ -21,8 +21,9 @@ public class SummaryTableWriterTests
         "file", "lot", "wafer", "die_x", "die_y", "model", "status",
         "barrier_height_eV", "barrier_height_eV_stderr", "barrier_height_eV_lo", "barrier_height_eV_hi", "barrier_height_eV_fixed",
         "thickness_nm", "thickness_nm_stderr", "thickness_nm_lo", "thickness_nm_hi", "thickness_nm_fixed",
-        "mass_ratio", "mass_ratio_stderr", "mass_ratio_lo", "mass_ratio_hi", "mass_ratio_fixed",
+        // The key order of every result table (ResultSchema): the standard keys φ, d, area, m*/mₑ first.
         "area_m2", "area_m2_stderr", "area_m2_lo", "area_m2_hi", "area_m2_fixed",
+        "mass_ratio", "mass_ratio_stderr", "mass_ratio_lo", "mass_ratio_hi", "mass_ratio_fixed",
         "reduced_chi2", "points_used", "points_masked", "transition_voltage_V", "warnings", "error",
     ];
 
@@ -39,7 +40,7 @@ public class SummaryTableWriterTests
 
         string Field(int row, string name) => rows[row][Array.IndexOf(ExpectedHeader, name)];
         Assert.Equal("KM-A01/W07/die_03_05.csv", Field(0, "file"));
-        Assert.Equal("KM-A01/W07/die,\"quoted\"\nname.csv", Field(1, "file"));
+        Assert.Equal("KM-A01/W07/die,\"quoted\" name.csv", Field(1, "file")); // a line break in a cell becomes a space
         Assert.Equal("ok", Field(0, "status"));
         Assert.Equal("poor-fit", Field(1, "status"));
         Assert.Equal("failed", Field(2, "status"));
@@ -62,7 +63,8 @@ public class SummaryTableWriterTests
     public void ToCsv_FieldWithQuoteAndComma_IsQuotedPerRfc4180()
     {
         string csv = SummaryTableWriter.ToCsv(Results());
-        Assert.Contains("\"KM-A01/W07/die,\"\"quoted\"\"\nname.csv\"", csv, StringComparison.Ordinal);
+        // RFC 4180 quoting of the comma and the doubled quote; the line break inside the name becomes a space (one record, one line).
+        Assert.Contains("\"KM-A01/W07/die,\"\"quoted\"\" name.csv\"", csv, StringComparison.Ordinal);
         Assert.StartsWith("file,lot,wafer,die_x,die_y,model,status,", csv, StringComparison.Ordinal);
         Assert.Contains("\r\n", csv, StringComparison.Ordinal);
     }

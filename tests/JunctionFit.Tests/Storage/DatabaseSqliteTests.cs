@@ -82,7 +82,7 @@ public sealed class DatabaseSqliteTests : IDisposable
         }
         using var c = Raw();
         Assert.Equal("wal", Scalar(c, "PRAGMA journal_mode"));
-        Assert.Equal("2", Scalar(c, "SELECT COUNT(*) FROM schema_version")); // one row per migration step
+        Assert.Equal(Migrations.All.Count.ToString(System.Globalization.CultureInfo.InvariantCulture), Scalar(c, "SELECT COUNT(*) FROM schema_version")); // one row per migration step
         Assert.Equal(ResultStore.CurrentSchemaVersion.ToString(System.Globalization.CultureInfo.InvariantCulture), Scalar(c, "SELECT MAX(version) FROM schema_version"));
     }
 
@@ -164,12 +164,50 @@ public sealed class DatabaseSqliteTests : IDisposable
                  "'{\"keys\": [], \"matrix\": []}', 0, 'run-1', '2025-03-14T10:15:00.0000000Z', '0.9', 'probe-7', '2025-03-14T10:16:00.0000000Z')");
         }
         using var store = Open();
-        Assert.Equal(2, store.SchemaVersion);
+        Assert.Equal(Migrations.Latest, store.SchemaVersion);
         var row = Assert.Single(store.Query());
         Assert.Equal("probe-7", row.FittedBy);
         Assert.Equal(new DateTimeOffset(2025, 3, 14, 10, 16, 0, TimeSpan.Zero), row.FittedAt);
         Assert.Empty(store.Claims([row.Key]));
         Assert.Empty(store.CheckConsistency());
+    }
+
+    [Fact]
+    public void Open_Version2Database_MigratesToOptionsIndexKeepingTheOptionSetOfEachRow()
+    {
+        // A database as version 2 left it, with one row written by the store of that version (its DDL, then a write).
+        Directory.CreateDirectory(Path.GetDirectoryName(_db)!);
+        using (var c = Raw())
+        {
+            void Exec(string sql)
+            {
+                using var cmd = c.CreateCommand();
+                cmd.CommandText = sql;
+                cmd.ExecuteNonQuery();
+            }
+            Exec(Migrations.CreateVersionTable);
+            foreach (var step in Migrations.All.Take(2))
+            {
+                foreach (string sql in step.Sqlite) Exec(sql);
+                Exec($"INSERT INTO schema_version VALUES ({step.Version}, '2025-03-14T10:00:00Z', 'v{step.Version}')");
+            }
+            var key = DemoResults.Key(4);
+            string options = DemoResults.Options.Replace("'", "''", StringComparison.Ordinal);
+            Exec("INSERT INTO fit_result (file_sha256, model, options_hash, options_text, file_path, status, warnings_json, correlation_json, " +
+                 "parameter_count, run_id, run_started_utc, tool_version, host, stored_utc, fitted_by, fitted_at) VALUES " +
+                 $"('{key.FileSha256}', 'simmons', '{key.OptionsHash}', '{options}', 'KM-A01/W00/die_04_00.csv', 'failed', '[]', " +
+                 "'{\"keys\": [], \"matrix\": []}', 0, 'run-1', '2025-03-14T10:15:00.0000000Z', '0.9', 'probe-7', '2025-03-14T10:16:00.0000000Z', " +
+                 "'probe-7:1', '2025-03-14T10:16:00.0000000Z')");
+        }
+        using (var store = Open())
+        {
+            Assert.Equal(Migrations.Latest, store.SchemaVersion);
+            var row = Assert.Single(store.Query()).ToRow();
+            Assert.Equal(DemoResults.Options, row.OptionSet); // readable, not only the hash
+            Assert.Single(OptionSets.Of([row]));
+        }
+        using var check = Raw();
+        Assert.Equal("fit_result_options", Scalar(check, "SELECT name FROM sqlite_master WHERE type = 'index' AND name = 'fit_result_options'"));
     }
 
     private SqliteConnection Raw()

@@ -25,18 +25,22 @@ public sealed class DatabaseWriterTests
             "mass_ratio,mass_ratio_stderr,mass_ratio_lo,mass_ratio_hi," +
             "series_resistance_ohm,series_resistance_ohm_stderr,series_resistance_ohm_lo,series_resistance_ohm_hi," +
             "reduced_chi2,transition_voltage_V,warnings,error," +
-            "fitted_by,fitted_at", // who fitted the result and when, after the columns of results.csv
+            "fitted_by,fitted_at," + // who fitted the result and when, after the core columns of results.csv
+            "option_set", // the options that made it
             lines[0]);
         Assert.Equal(5, lines.Length); // header, three rows, and the empty text after the last line feed
         Assert.Equal("", lines[^1]);
         var p = rows[0].Result;
         string R(string key, Func<JunctionFit.Results.ParameterEstimate, double?> f) => f(p.Find(key)!)!.Value.ToString("R", System.Globalization.CultureInfo.InvariantCulture);
-        Assert.Equal(
+        string expected =
             $"KM-A01/W00/die_01_00.csv,KM-A01,W00,1,0,simmons,ok,{R("barrier_height_eV", e => e.Value)},0.004,{R("barrier_height_eV", e => e.Lower95)},"
             + $"{R("barrier_height_eV", e => e.Upper95)},{R("thickness_nm", e => e.Value)},0.002,{R("thickness_nm", e => e.Lower95)},{R("thickness_nm", e => e.Upper95)},"
-            + "1E-10,,,,1,,,,,,,,1.03,0.801,,,probe-7:4242,2025-03-14T10:16:00.0000000+00:00",
-            lines[1]);
-        Assert.EndsWith(",,,,,,no current above the noise floor; check the probe contact,,", lines[3], StringComparison.Ordinal);
+            + "1E-10,,,,1,,,,,,,,1.03,0.801,,,probe-7:4242,2025-03-14T10:16:00.0000000+00:00,";
+        Assert.StartsWith(expected, lines[1], StringComparison.Ordinal);
+        // The option set: the canonical options text on one line (RFC 4180 quoted when it holds a comma).
+        string cell = ResultSchema.OptionSetCell(rows[0].OptionsText)!;
+        Assert.Equal(cell.Contains(',', StringComparison.Ordinal) ? $"\"{cell}\"" : cell, lines[1][expected.Length..]);
+        Assert.Contains(",,,,,,no current above the noise floor; check the probe contact,,,", lines[3], StringComparison.Ordinal); // empty fitted_by, fitted_at, then the option set
         Assert.Contains(",failed,", lines[3], StringComparison.Ordinal);
     }
 
@@ -55,7 +59,7 @@ public sealed class DatabaseWriterTests
     {
         string csv = StoredResultsWriter.FormatCsv([]);
         Assert.StartsWith("file,lot,wafer,die_x,die_y,model,status,barrier_height_eV,", csv, StringComparison.Ordinal);
-        Assert.EndsWith("mass_ratio_hi,reduced_chi2,transition_voltage_V,warnings,error,fitted_by,fitted_at\n", csv, StringComparison.Ordinal);
+        Assert.EndsWith("mass_ratio_hi,reduced_chi2,transition_voltage_V,warnings,error,fitted_by,fitted_at,option_set\n", csv, StringComparison.Ordinal);
     }
 
     [Fact]
@@ -68,10 +72,12 @@ public sealed class DatabaseWriterTests
         Assert.Equal(2, lines.Length);
         using var doc = JsonDocument.Parse(lines[0]);
         var names = doc.RootElement.EnumerateObject().Select(p => p.Name).ToList();
-        var csvColumns = StoredResultsWriter.Columns(StoredResultsWriter.ParameterKeys(rows));
-        Assert.Equal(csvColumns, names.Take(csvColumns.Length));
-        Assert.Equal(["points_used", "points_masked", "file_sha256", "options_hash", "run_id", "run_started_utc", "tool_version", "host", "stored_utc", "fitted_by", "fitted_at"],
-            names.Skip(csvColumns.Length));
+        var keys = StoredResultsWriter.ParameterKeys(rows);
+        var schemaColumns = ResultSchema.Columns(keys, StoredResultsWriter.JsonGroups).Select(c => c.Name).ToList();
+        Assert.Equal(schemaColumns, names.Take(schemaColumns.Count));
+        Assert.Subset(schemaColumns.ToHashSet(), StoredResultsWriter.Columns(keys).ToHashSet()); // every CSV column is a JSON key
+        Assert.Equal(["points_used", "points_masked"], schemaColumns.Where(n => n.StartsWith("points_", StringComparison.Ordinal)));
+        Assert.Equal(["file_sha256", "options_hash", "run_id", "run_started_utc", "tool_version", "host", "stored_utc"], names.Skip(schemaColumns.Count));
         Assert.Equal(2.0, doc.RootElement.GetProperty("barrier_height_eV").GetDouble());
         Assert.Equal(JsonValueKind.Null, doc.RootElement.GetProperty("area_m2_stderr").ValueKind);
         Assert.Equal(DemoResults.FileSha256(0), doc.RootElement.GetProperty("file_sha256").GetString());

@@ -1,7 +1,6 @@
 using System.Collections.Immutable;
-using JunctionFit.Results;
 
-namespace JunctionFit.Lots;
+namespace JunctionFit.Results;
 
 /// <summary>
 /// One parameter of a <see cref="ResultRow"/>, in the unit its key names (eV, nm, m², dimensionless).
@@ -12,21 +11,24 @@ namespace JunctionFit.Lots;
 /// <param name="StandardError">Standard error; null when fixed or not estimable.</param>
 /// <param name="Lower95">Lower end of the 95 % interval; null when fixed or not estimable.</param>
 /// <param name="Upper95">Upper end of the 95 % interval; null when fixed or not estimable.</param>
-public sealed record RowParameter(string Key, double? Value, double? StandardError, double? Lower95, double? Upper95);
+public sealed record RowParameter(string Key, double? Value, double? StandardError, double? Lower95, double? Upper95)
+{
+    /// <summary>True when the parameter was held fixed; null when not known (a table without the column).</summary>
+    public bool? IsFixed { get; init; }
+}
 
 /// <summary>
-/// One line of a lot's results table: where the die is, how its fit went, and the parameters as plain
-/// numbers. A flat, immutable snapshot of a <see cref="FitResult"/> that can be written to and read back
-/// from <c>results.csv</c> without losing anything the lot statistics need.
+/// One line of a results table: where the die is, how its fit went, and the parameters as plain numbers. A flat,
+/// immutable snapshot of a <see cref="FitResult"/>; every table of results (results.csv, summary.csv, the stored
+/// results as CSV or JSON) is written from rows through the columns of <see cref="ResultSchema"/>.
 /// </summary>
 public sealed record ResultRow
 {
     /// <summary>The four standard keys in the order every table uses: φ, d, area, m*/mₑ.</summary>
-    public static ImmutableArray<string> StandardKeys { get; } =
-        ["barrier_height_eV", "thickness_nm", "area_m2", "mass_ratio"];
+    public static ImmutableArray<string> StandardKeys => ResultSchema.StandardKeys;
 
     /// <summary>Key under which the transition voltage (V) is offered to the lot statistics.</summary>
-    public const string TransitionVoltageKey = "transition_voltage_V";
+    public const string TransitionVoltageKey = ResultSchema.TransitionVoltageKey;
 
     /// <summary>The I–V file as given.</summary>
     public required string File { get; init; }
@@ -55,6 +57,12 @@ public sealed record ResultRow
     /// <summary>Reduced χ² of the fit; null when unknown.</summary>
     public double? ReducedChiSquare { get; init; }
 
+    /// <summary>Points that entered the fit; null when unknown.</summary>
+    public int? PointsUsed { get; init; }
+
+    /// <summary>Points left out of the fit; null when unknown.</summary>
+    public int? PointsMasked { get; init; }
+
     /// <summary>Transition voltage for positive bias in volt; null when not found.</summary>
     public double? TransitionVoltageV { get; init; }
 
@@ -63,6 +71,21 @@ public sealed record ResultRow
 
     /// <summary>Why the fit failed; null unless it did.</summary>
     public string? Error { get; init; }
+
+    /// <summary>
+    /// The option set that made the row: the canonical options text of the result identity (sorted <c>name=value</c>
+    /// lines after a format line, separated by line feeds); null when not known (a table written before the column existed).
+    /// </summary>
+    public string? OptionSet { get; init; }
+
+    /// <summary>The row's fit plot, relative to the output folder (<c>plots/…png</c>); null when none was written.</summary>
+    public string? Plot { get; init; }
+
+    /// <summary>The worker that fitted the row (<c>host:pid</c> or <c>NAME@host:pid</c>); null when not known.</summary>
+    public string? FittedBy { get; init; }
+
+    /// <summary>When the row was fitted (UTC); null when not known.</summary>
+    public DateTimeOffset? FittedAt { get; init; }
 
     /// <summary>True when the fit's status is <see cref="FitStatus.Ok"/>: the only rows the lot statistics use.</summary>
     public bool IsGood => Status == FitStatus.Ok;
@@ -93,14 +116,13 @@ public sealed record ResultRow
 
     /// <summary>Flattens a fit result into a row; parameters are put into table order.</summary>
     /// <param name="result">The fit.</param>
-    /// <returns>The row.</returns>
+    /// <returns>The row (without option set, plot or worker: set them with <c>with</c>).</returns>
     /// <exception cref="ArgumentNullException"><paramref name="result"/> is null.</exception>
     public static ResultRow FromFitResult(FitResult result)
     {
         ArgumentNullException.ThrowIfNull(result);
         var parameters = result.Parameters
-            .Select(p => new RowParameter(p.Key, p.Value, p.StandardError, p.Lower95, p.Upper95))
-            .ToList();
+            .Select(p => new RowParameter(p.Key, p.Value, p.StandardError, p.Lower95, p.Upper95) { IsFixed = p.IsFixed });
         return new ResultRow
         {
             File = result.SourcePath,
@@ -110,8 +132,10 @@ public sealed record ResultRow
             DieY = result.DieY,
             Model = result.Model,
             Status = result.Status,
-            Parameters = [.. parameters.OrderBy(p => KeyRank(p.Key))],
+            Parameters = [.. parameters.OrderBy(p => ResultSchema.KeyRank(p.Key))],
             ReducedChiSquare = result.Quality?.ReducedChiSquare,
+            PointsUsed = result.Quality?.PointsUsed,
+            PointsMasked = result.Quality?.PointsMasked,
             TransitionVoltageV = result.TransitionVoltageV,
             Warnings = result.Warnings,
             Error = result.Error,
@@ -127,22 +151,6 @@ public sealed record ResultRow
     public static ImmutableArray<string> ParameterKeysOf(IEnumerable<ResultRow> rows)
     {
         ArgumentNullException.ThrowIfNull(rows);
-        var keys = new List<string>(StandardKeys);
-        var seen = new HashSet<string>(StandardKeys, StringComparer.Ordinal);
-        foreach (var row in rows)
-        {
-            foreach (var p in row.Parameters)
-            {
-                if (seen.Add(p.Key)) keys.Add(p.Key);
-            }
-        }
-        return [.. keys];
-    }
-
-    /// <summary>Position of a key in table order: standard keys first, others after (stable sort keeps their order).</summary>
-    internal static int KeyRank(string key)
-    {
-        int i = StandardKeys.IndexOf(key, StringComparer.Ordinal);
-        return i >= 0 ? i : StandardKeys.Length;
+        return ResultSchema.ParameterKeys(rows.Select(r => r.Parameters.Select(p => p.Key)), withStandard: true);
     }
 }
