@@ -350,6 +350,21 @@ internal static class BatchCommand
         }
     }
 
+    /// <summary>
+    /// Opens a database for a command that only reads it (results, drift, thickness): a SQLite file that does not exist is
+    /// a usage error naming the path, and nothing is created (a mistyped path must not leave an empty database behind).
+    /// </summary>
+    internal static IResultStore OpenExistingStore(CliContext context, string database)
+    {
+        if (!string.IsNullOrWhiteSpace(database) && ResultStore.KindOf(database) == ResultStoreKind.Sqlite && !File.Exists(database))
+        {
+            throw new UsageException(Directory.Exists(database)
+                ? $"--db: {database} is a folder, not a results database file"
+                : $"--db: no results database at {Path.GetFullPath(database)} (reading commands never create one; give the file that batch wrote)");
+        }
+        return OpenStore(context, database);
+    }
+
     internal static IResultStore OpenStore(CliContext context, string database)
     {
         try
