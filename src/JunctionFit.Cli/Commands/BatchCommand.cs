@@ -5,6 +5,7 @@ using JunctionFit.Common;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
 using JunctionFit.Lots;
+using JunctionFit.Physics;
 using JunctionFit.Reporting;
 using JunctionFit.Results;
 using JunctionFit.Storage;
@@ -24,7 +25,7 @@ internal static class BatchCommand
     public const int ReportSummaryLimit = 2000;
 
     /// <summary>Parameters drawn as wafer maps.</summary>
-    public static readonly string[] MapKeys = ["barrier_height_eV", "thickness_nm", "area_m2", "flatband_voltage_V"];
+    public static readonly string[] MapKeys = [ParameterKey.BarrierHeight.Name, ParameterKey.Thickness.Name, ParameterKey.Area.Name, ParameterKey.FlatBandVoltage.Name];
 
     public static Command Create(CliContext context)
     {
@@ -432,9 +433,9 @@ internal static class BatchCommand
     {
         var header = new List<string> { "Lot", "Dies", "Ok", "Poor fit", "Failed", "Yield" };
         // flatband_voltage_V (the mos model) only when some lot has it, so junction reports keep their columns.
-        string[] keys = lots.Any(l => l.Find("flatband_voltage_V") is { GoodCount: > 0 })
-            ? ["barrier_height_eV", "thickness_nm", "area_m2", "flatband_voltage_V", "transition_voltage_V"]
-            : ["barrier_height_eV", "thickness_nm", "area_m2", "transition_voltage_V"];
+        string[] keys = lots.Any(l => l.Find(ParameterKey.FlatBandVoltage.Name) is { GoodCount: > 0 })
+            ? [ParameterKey.BarrierHeight.Name, ParameterKey.Thickness.Name, ParameterKey.Area.Name, ParameterKey.FlatBandVoltage.Name, ParameterKey.TransitionVoltage.Name]
+            : [ParameterKey.BarrierHeight.Name, ParameterKey.Thickness.Name, ParameterKey.Area.Name, ParameterKey.TransitionVoltage.Name];
         foreach (string k in keys) { header.Add(k + " median"); header.Add(k + " robust spread"); }
         var table = new List<IReadOnlyList<string>>();
         foreach (var lot in lots)

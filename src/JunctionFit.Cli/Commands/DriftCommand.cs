@@ -197,7 +197,7 @@ internal static class ThicknessCommand
             List<CetMeasurement>? cetMeasurements = null;
             if (cvPaths.Length > 0)
             {
-                double? area = parse.GetValue(cvArea) is string areaText ? QuantityParser.ParseAreaM2(areaText) : null;
+                double? area = parse.GetValue(cvArea) is string areaText ? QuantityParser.ParseAreaM2(areaText, "--cv-area") : null;
                 cetMeasurements = LotAnalyses.ReadCet(context, cvPaths, readOptions.PathPattern, area, plan.ModelOptions.Mos.OxidePermittivity);
                 if (cetMeasurements is null) return ExitCodes.UsageOrInput;
             }

@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using JunctionFit.Physics;
 using JunctionFit.Results;
 
 namespace JunctionFit.Lots;
@@ -23,10 +24,10 @@ public sealed record ResultRow
 {
     /// <summary>The four standard keys in the order every table uses: φ, d, area, m*/mₑ.</summary>
     public static ImmutableArray<string> StandardKeys { get; } =
-        ["barrier_height_eV", "thickness_nm", "area_m2", "mass_ratio"];
+        [ParameterKey.BarrierHeight.Name, ParameterKey.Thickness.Name, ParameterKey.Area.Name, ParameterKey.MassRatio.Name];
 
     /// <summary>Key under which the transition voltage (V) is offered to the lot statistics.</summary>
-    public const string TransitionVoltageKey = "transition_voltage_V";
+    public static string TransitionVoltageKey => ParameterKey.TransitionVoltage.Name;
 
     /// <summary>The I–V file as given.</summary>
     public required string File { get; init; }

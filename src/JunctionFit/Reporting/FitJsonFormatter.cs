@@ -1,6 +1,7 @@
 using System.Buffers;
 using System.Text;
 using System.Text.Json;
+using JunctionFit.Physics;
 using JunctionFit.Results;
 
 namespace JunctionFit.Reporting;
@@ -13,7 +14,7 @@ namespace JunctionFit.Reporting;
 public static class FitJsonFormatter
 {
     /// <summary>Order of the leading parameter keys; others follow in model order.</summary>
-    private static readonly string[] LeadingKeys = ["barrier_height_eV", "thickness_nm", "area_m2", "mass_ratio"];
+    private static readonly string[] LeadingKeys = [ParameterKey.BarrierHeight.Name, ParameterKey.Thickness.Name, ParameterKey.Area.Name, ParameterKey.MassRatio.Name];
 
     private static readonly JsonWriterOptions WriterOptions = new() { Indented = false, SkipValidation = false };
 
@@ -166,11 +167,11 @@ public static class FitJsonFormatter
             w.WriteNumber("value", cv.CapacitanceEquivalentThicknessNm);
             w.WriteNumber("c_max_F", cv.MaxCapacitanceF);
             w.WriteNumber("c_max_bias_V", cv.MaxCapacitanceBiasV);
-            w.WriteNumber("area_m2", cv.AreaM2);
+            w.WriteNumber(ParameterKey.Area.Name, cv.AreaM2);
             w.WriteBoolean("saturated", cv.Saturated);
-            if (result.Find("thickness_nm") is { } tox) w.WriteNumber("cet_minus_thickness_nm", cv.CapacitanceEquivalentThicknessNm - tox.Value);
+            if (result.Find(ParameterKey.Thickness.Name) is { } tox) w.WriteNumber("cet_minus_thickness_nm", cv.CapacitanceEquivalentThicknessNm - tox.Value);
             WriteNumberOrNull(w, "doping_cm3", cv.DopingM3 / 1e6);
-            WriteNumberOrNull(w, "flatband_voltage_V", cv.FlatBandVoltageV);
+            WriteNumberOrNull(w, ParameterKey.FlatBandVoltage.Name, cv.FlatBandVoltageV);
             w.WriteEndObject();
         }
         WriteStringOrNull(w, "lot", result.Lot);

@@ -3,6 +3,7 @@ using System.Collections.Immutable;
 using System.Globalization;
 using System.Text;
 using System.Text.Json;
+using JunctionFit.Physics;
 using JunctionFit.Reporting;
 using JunctionFit.Results;
 
@@ -30,7 +31,7 @@ namespace JunctionFit.Storage;
 public static class StoredResultsWriter
 {
     /// <summary>The four parameter keys every table has, in this order.</summary>
-    public static ImmutableArray<string> StandardKeys { get; } = ["barrier_height_eV", "thickness_nm", "area_m2", "mass_ratio"];
+    public static ImmutableArray<string> StandardKeys { get; } = [ParameterKey.BarrierHeight.Name, ParameterKey.Thickness.Name, ParameterKey.Area.Name, ParameterKey.MassRatio.Name];
 
     /// <summary>Separator of the warnings inside their cell.</summary>
     public const string WarningSeparator = " | ";
