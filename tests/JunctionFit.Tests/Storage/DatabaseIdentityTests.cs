@@ -84,7 +84,7 @@ public sealed class DatabaseIdentityTests
     {
         // When FitOptions or the solver options gain a property, decide whether it changes a fit's outcome; if it does,
         // write it in ResultIdentity.CanonicalOptions (stored results then count as stale), then list it here.
-        string[] fit = ["BiasWindowHighV", "BiasWindowLowV", "ComplianceA", "DirectionFits", "FixAreaFromMetadata", "Bounds", "FixedValues", "FreedKeys",
+        string[] fit = ["BiasWindowHighV", "BiasWindowLowV", "Bounds", "ComplianceA", "DirectionFits", "FixAreaFromMetadata", "FixedValues", "FreedKeys",
             "KeepSettling", "MisfitTolerance", "NoiseFloorA", "RelativeNoise", "Solver", "StartValues", "Starts", "SweepDirection"];
         string[] solver = ["GradientTolerance", "InitialStepFactor", "MaxFunctionEvaluations", "MaxIterations", "RelativeReductionTolerance", "StepTolerance"];
         Assert.Equal(fit, InstanceProperties(typeof(FitOptions)));
