@@ -9,8 +9,10 @@ public static class QuantityParser
     /// Parses an area: a bare number is µm²; suffixes <c>um2</c> (also µm2, µm²), <c>m2</c>, <c>cm2</c>, <c>nm2</c>, <c>mm2</c>.
     /// Returns m².
     /// </summary>
+    /// <param name="text">The text as typed.</param>
+    /// <param name="option">The option the user typed, named in the message (for example <c>--area</c> or <c>--fix</c>).</param>
     /// <exception cref="UsageException">The text is not a positive area.</exception>
-    public static double ParseAreaM2(string text)
+    public static double ParseAreaM2(string text, string option = "--area")
     {
         ArgumentNullException.ThrowIfNull(text);
         string t = text.Trim().Replace("²", "2", StringComparison.Ordinal).Replace("µ", "u", StringComparison.Ordinal).Replace("μ", "u", StringComparison.Ordinal);
@@ -27,7 +29,7 @@ public static class QuantityParser
         }
         if (!double.TryParse(t, NumberStyles.Float, CultureInfo.InvariantCulture, out double value) || !double.IsFinite(value) || value <= 0)
         {
-            throw new UsageException($"--area: '{text}' is not a positive area (a bare number is µm²; suffixes um2, m2, cm2, nm2)");
+            throw new UsageException($"{option}: '{text}' is not a positive area (a bare number is µm²; suffixes um2, m2, cm2, nm2)");
         }
         return value * scale;
     }

@@ -57,7 +57,7 @@ internal static class BenchmarkCurves
     /// <summary>Area known: fixed at 100 µm² (what <c>--area 100</c> does).</summary>
     public static FitOptions AreaKnown { get; } = new()
     {
-        FixedValues = ImmutableDictionary<string, double>.Empty.Add(StandardParameters.Area.Key, AreaM2),
+        FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, AreaM2),
     };
 
     /// <summary>Area free: φ, d and the area are fitted; the file's area is only the start value.</summary>

@@ -23,7 +23,7 @@ internal static class StageProfile
         var model = new JunctionCurrentModel(SimmonsRectangularModel.Instance);
         var options = FitOptions.Default with
         {
-            FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", areaUm2 * 1e-12).Add("mass_ratio", 1.0),
+            FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, areaUm2 * 1e-12).Add(ParameterKey.MassRatio, 1.0),
         };
         var curves = new IvCurve[files.Length];
         var results = new Results.FitResult[files.Length];

@@ -5,6 +5,7 @@ using JunctionFit.Common;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
 using JunctionFit.Lots;
+using JunctionFit.Physics;
 using JunctionFit.Reporting;
 using JunctionFit.Results;
 using JunctionFit.Storage;
@@ -27,7 +28,7 @@ internal static class BatchCommand
     public const string PlotDirName = "plots";
 
     /// <summary>Parameters drawn as wafer maps.</summary>
-    public static readonly string[] MapKeys = ["barrier_height_eV", "thickness_nm", "area_m2", "flatband_voltage_V"];
+    public static readonly string[] MapKeys = [ParameterKey.BarrierHeight.Name, ParameterKey.Thickness.Name, ParameterKey.Area.Name, ParameterKey.FlatBandVoltage.Name];
 
     public static Command Create(CliContext context)
     {
@@ -360,6 +361,21 @@ internal static class BatchCommand
         }
     }
 
+    /// <summary>
+    /// Opens a database for a command that only reads it (results, drift, thickness): a SQLite file that does not exist is
+    /// a usage error naming the path, and nothing is created (a mistyped path must not leave an empty database behind).
+    /// </summary>
+    internal static IResultStore OpenExistingStore(CliContext context, string database)
+    {
+        if (!string.IsNullOrWhiteSpace(database) && ResultStore.KindOf(database) == ResultStoreKind.Sqlite && !File.Exists(database))
+        {
+            throw new UsageException(Directory.Exists(database)
+                ? $"--db: {database} is a folder, not a results database file"
+                : $"--db: no results database at {Path.GetFullPath(database)} (reading commands never create one; give the file that batch wrote)");
+        }
+        return OpenStore(context, database);
+    }
+
     internal static IResultStore OpenStore(CliContext context, string database)
     {
         try
@@ -407,9 +423,9 @@ internal static class BatchCommand
     {
         var header = new List<string> { "Lot", "Dies", "Ok", "Poor fit", "Failed", "Yield" };
         // flatband_voltage_V (the mos model) only when some lot has it, so junction reports keep their columns.
-        string[] keys = lots.Any(l => l.Find("flatband_voltage_V") is { GoodCount: > 0 })
-            ? ["barrier_height_eV", "thickness_nm", "area_m2", "flatband_voltage_V", "transition_voltage_V"]
-            : ["barrier_height_eV", "thickness_nm", "area_m2", "transition_voltage_V"];
+        string[] keys = lots.Any(l => l.Find(ParameterKey.FlatBandVoltage.Name) is { GoodCount: > 0 })
+            ? [ParameterKey.BarrierHeight.Name, ParameterKey.Thickness.Name, ParameterKey.Area.Name, ParameterKey.FlatBandVoltage.Name, ParameterKey.TransitionVoltage.Name]
+            : [ParameterKey.BarrierHeight.Name, ParameterKey.Thickness.Name, ParameterKey.Area.Name, ParameterKey.TransitionVoltage.Name];
         foreach (string k in keys) { header.Add(k + " median"); header.Add(k + " robust spread"); }
         var table = new List<IReadOnlyList<string>>();
         foreach (var lot in lots)

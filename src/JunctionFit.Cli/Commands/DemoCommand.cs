@@ -20,7 +20,7 @@ internal static class DemoCommand
     public static Command Create(CliContext context)
     {
         var outDir = new Option<string>("--out") { Description = "output folder", DefaultValueFactory = _ => "junctionfit-demo" };
-        var data = new Option<string?>("--data") { Description = "sample-data folder (default: found next to the working directory or the tool)" };
+        var data = new Option<string?>("--data") { Description = "sample-data folder (default: the one installed beside the program)" };
         var fitOptions = new FitOptionSet();
         var command = new Command("demo", "Run the whole flow on the bundled sample lots: fits, wafer maps, drift, thickness cross-check, report.");
         command.Options.Add(outDir);
@@ -29,7 +29,7 @@ internal static class DemoCommand
         command.SetAction(parse =>
         {
             string folder = parse.GetValue(data) ?? FindSampleData()
-                ?? throw new UsageException("demo: cannot find the sample-data folder; run from the project folder or give --data PATH");
+                ?? throw new UsageException($"demo: the sample data are missing beside the program ({Path.Combine(AppContext.BaseDirectory, "sample-data")}); reinstall it or give --data PATH");
             if (!Directory.Exists(folder)) throw new UsageException($"demo: --data {folder}: no such folder");
             string relative = Path.GetRelativePath(Directory.GetCurrentDirectory(), folder);
             if (!relative.StartsWith("..", StringComparison.Ordinal) && !Path.IsPathRooted(relative)) folder = relative;
@@ -80,17 +80,13 @@ internal static class DemoCommand
         return command;
     }
 
-    /// <summary>Looks for sample-data/ in the working directory and its parents, then beside the tool and its parents.</summary>
+    /// <summary>
+    /// The sample-data folder shipped beside the program (copied there by the build and packed into the tool package), so
+    /// that demo runs the same from the project, from a copied build output and from an installed tool, in any folder.
+    /// </summary>
     internal static string? FindSampleData()
     {
-        foreach (string start in new[] { Directory.GetCurrentDirectory(), AppContext.BaseDirectory })
-        {
-            for (var dir = new DirectoryInfo(start); dir is not null; dir = dir.Parent)
-            {
-                string candidate = Path.Combine(dir.FullName, "sample-data");
-                if (Directory.Exists(candidate) && File.Exists(Path.Combine(candidate, "README.md"))) return candidate;
-            }
-        }
-        return null;
+        string candidate = Path.Combine(AppContext.BaseDirectory, "sample-data");
+        return Directory.Exists(Path.Combine(candidate, "lots")) ? candidate : null;
     }
 }

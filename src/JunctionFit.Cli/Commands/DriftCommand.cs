@@ -18,7 +18,7 @@ internal static class DriftCommand
         var lotFilter = new Option<string[]>("--lot") { Description = "with --db: only these lots (repeatable); default all" };
         var reference = new Option<string[]>("--reference") { Description = "reference lot(s); repeatable", Required = true };
         var json = new Option<bool>("--json") { Description = "one JSON object per lot and parameter, one per line" };
-        var outDir = new Option<string?>("--out") { Description = "folder for the trend charts (default: beside the first results file)" };
+        var outDir = new Option<string?>("--out") { Description = "folder for the trend charts (default: beside the first results file; required with only --db)" };
         var threshold = new Option<string[]>("--threshold") { Description = "practical threshold KEY=VALUE (absolute, in the key's unit) or KEY=N% (relative); repeatable" };
         var alpha = new Option<double>("--alpha") { Description = "family-wise significance level (Holm)", DefaultValueFactory = _ => 0.05 };
         var minDies = new Option<int>("--min-dies") { Description = "good dies a lot needs to be compared", DefaultValueFactory = _ => 3 };
@@ -31,6 +31,10 @@ internal static class DriftCommand
             var paths = parse.GetValue(files) ?? [];
             string? database = parse.GetValue(db);
             if (paths.Length == 0 && database is null) throw new UsageException("drift: give results.csv files or --db");
+            if (paths.Length == 0 && parse.GetValue(outDir) is null)
+            {
+                throw new UsageException("drift --db: give --out DIR for the trend charts (with only a database there is no results file to put them beside)");
+            }
             var rows = ReadResults(context, paths);
             if (rows is null) return ExitCodes.UsageOrInput;
             if (database is not null) rows = rows.Value.AddRange(ReadDatabase(context, database, parse.GetValue(lotFilter) ?? []));
@@ -82,7 +86,7 @@ internal static class DriftCommand
     /// <summary>Rows stored in a results database (all lots, or the given ones).</summary>
     internal static IEnumerable<ResultRow> ReadDatabase(CliContext context, string database, IReadOnlyList<string> lots)
     {
-        using var store = BatchCommand.OpenStore(context, database);
+        using var store = BatchCommand.OpenExistingStore(context, database);
         var stored = lots.Count == 0 ? store.Query() : lots.SelectMany(l => store.Query(lot: l)).ToList();
         return stored.Select(r => r.ToRow()).ToList();
     }
@@ -125,7 +129,7 @@ internal static class ThicknessCommand
         };
         var db = new Option<string?>("--db") { Description = "read the results from this database instead of a results.csv" };
         var json = new Option<bool>("--json") { Description = "print the comparison as one JSON object" };
-        var outDir = new Option<string?>("--out") { Description = "folder for the Bland–Altman plot (default: beside the results file)" };
+        var outDir = new Option<string?>("--out") { Description = "folder for the Bland–Altman plot (default: beside the results file; required with --db)" };
         var jobs = new Option<int?>("--jobs") { Description = "parallel refits (default: the number of cores)" };
         var tolerance = new Option<double>("--tolerance") { Description = "practical tolerance in nm on |electrical - ellipsometric| for flagging a wafer", DefaultValueFactory = _ => LotAnalyses.DefaultThicknessToleranceNm };
         var cv = new Option<string[]>("--cv")
@@ -163,6 +167,10 @@ internal static class ThicknessCommand
                 throw new UsageException("thickness: give RESULTS.csv ELLIPSOMETRY.csv, or --db DB ELLIPSOMETRY.csv");
             }
             string ellipsometryPath = given[^1];
+            if (database is not null && parse.GetValue(outDir) is null)
+            {
+                throw new UsageException("thickness --db: give --out DIR for the Bland–Altman plot (with only a database there is no results file to put it beside)");
+            }
             string resultsPath = database is null ? given[0] : Path.Combine(Directory.GetCurrentDirectory(), "results.csv");
             var read0 = database is null
                 ? DriftCommand.ReadResults(context, [resultsPath])
@@ -195,7 +203,7 @@ internal static class ThicknessCommand
             List<CetMeasurement>? cetMeasurements = null;
             if (cvPaths.Length > 0)
             {
-                double? area = parse.GetValue(cvArea) is string areaText ? QuantityParser.ParseAreaM2(areaText) : null;
+                double? area = parse.GetValue(cvArea) is string areaText ? QuantityParser.ParseAreaM2(areaText, "--cv-area") : null;
                 cetMeasurements = LotAnalyses.ReadCet(context, cvPaths, readOptions.PathPattern, area, plan.ModelOptions.Mos.OxidePermittivity);
                 if (cetMeasurements is null) return ExitCodes.UsageOrInput;
             }

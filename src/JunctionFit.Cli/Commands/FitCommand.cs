@@ -55,6 +55,16 @@ internal sealed class FitOptionSet
         Description = "fix a parameter: NAME=VALUE in its display unit (barrier-height=2.1, thickness=1.6, area=100); repeatable",
     };
 
+    public Option<string[]> Start { get; } = new("--start")
+    {
+        Description = "start value of a free parameter: NAME=VALUE in its display unit (barrier-height=1.8, thickness=2); tried first, before the start grid; repeatable",
+    };
+
+    public Option<string[]> Bound { get; } = new("--bound")
+    {
+        Description = "bounds of a free parameter: NAME=LO:HI in its display unit, either end may be left empty (barrier-height=1.5:2.5, thickness=:3); repeatable",
+    };
+
     public Option<double?> Noise { get; } = new("--noise")
     {
         Description = "known relative current noise r (σ_I = r·|I|); without it the noise level is estimated from the fit",
@@ -152,6 +162,8 @@ internal sealed class FitOptionSet
         command.Options.Add(MassRatio);
         command.Options.Add(Free);
         command.Options.Add(Fix);
+        command.Options.Add(Start);
+        command.Options.Add(Bound);
         command.Options.Add(Noise);
         command.Options.Add(NoiseFloor);
         command.Options.Add(Compliance);
@@ -300,11 +312,12 @@ internal sealed class FitOptionSet
         }
         modelOptions = modelOptions with { Mos = mosStack };
 
-        // Parasitic elements are switched on by naming them in --free or --fix.
+        // Parasitic elements are switched on by naming them in --free, --fix, --start or --bound.
         string[] freeNames = parse.GetValue(Free) ?? [];
         string[] fixItems = parse.GetValue(Fix) ?? [];
         var parasitics = ParasiticOptions.None;
-        foreach (string name in freeNames.Concat(fixItems.Select(f => f.Split('=')[0].Trim())))
+        var named = fixItems.Concat(parse.GetValue(Start) ?? []).Concat(parse.GetValue(Bound) ?? []).Select(f => f.Split('=')[0].Trim());
+        foreach (string name in freeNames.Concat(named))
         {
             foreach (var (def, enable) in ParasiticSwitches)
             {
@@ -316,9 +329,9 @@ internal sealed class FitOptionSet
             }
         }
 
-        var fixedValues = ImmutableDictionary.CreateBuilder<string, double>();
-        var freed = ImmutableHashSet.CreateBuilder<string>();
-        var starts = ImmutableDictionary.CreateBuilder<string, double>();
+        var fixedValues = ImmutableDictionary.CreateBuilder<ParameterKey, double>();
+        var freed = ImmutableHashSet.CreateBuilder<ParameterKey>();
+        var starts = ImmutableDictionary.CreateBuilder<ParameterKey, double>();
         double massRatio = parse.GetValue(MassRatio);
         if (!(massRatio > 0) || !double.IsFinite(massRatio)) throw new UsageException($"--mass-ratio: {massRatio} must be a positive number");
         var summary = new List<string> { names.Count == 1 ? $"model {names[0]}" : $"model auto ({string.Join(", ", names)}, by AICc)" };
@@ -338,7 +351,7 @@ internal sealed class FitOptionSet
         foreach (string name in freeNames)
         {
             var def = FindInAny(name, "--free");
-            freed.Add(def.Key);
+            freed.Add(def.Id);
             summary.Add($"free {ParameterNames.CliName(def)}");
         }
         // The mos model has its own oxide masses (electrons 0.40, holes 0.32): --mass-ratio applies only when given.
@@ -351,13 +364,13 @@ internal sealed class FitOptionSet
             summary.Add($"{(mosStack.Substrate == SubstrateType.P ? "p" : "n")} substrate, {MosGateStackModel.GateText(gate)} gate, doping " +
                         $"{mosStack.DopingM3 / 1e6:0.##e+0} cm^-3{(mosStack.DopingStated ? "" : " (assumed)")}");
         }
-        if (freed.Contains(StandardParameters.MassRatio.Key)) starts[StandardParameters.MassRatio.Key] = massRatio;
-        else if (massGiven) fixedValues[StandardParameters.MassRatio.Key] = massRatio;
-        summary.Add(freed.Contains(StandardParameters.MassRatio.Key) ? $"mass ratio free (start {massRatio})" : $"mass ratio fixed at {massRatio}");
+        if (freed.Contains(ParameterKey.MassRatio)) starts[ParameterKey.MassRatio] = massRatio;
+        else if (massGiven) fixedValues[ParameterKey.MassRatio] = massRatio;
+        summary.Add(freed.Contains(ParameterKey.MassRatio) ? $"mass ratio free (start {massRatio})" : $"mass ratio fixed at {massRatio}");
         if (parse.GetValue(Area) is string areaText)
         {
             double area = QuantityParser.ParseAreaM2(areaText);
-            fixedValues[StandardParameters.Area.Key] = area;
+            fixedValues[ParameterKey.Area] = area;
             summary.Add($"area fixed at {area * 1e12:G6} µm²");
         }
         else if (parse.GetValue(AreaFromFile))
@@ -373,13 +386,35 @@ internal sealed class FitOptionSet
             int eq = item.IndexOf('=', StringComparison.Ordinal);
             if (eq <= 0 || eq == item.Length - 1) throw new UsageException($"--fix: '{item}' must be NAME=VALUE, for example thickness=1.6");
             var def = FindInAny(item[..eq].Trim(), "--fix");
-            if (fixedValues.ContainsKey(def.Key) && (def.Key != StandardParameters.MassRatio.Key))
+            if (fixedValues.ContainsKey(def.Id) && (def.Id != ParameterKey.MassRatio))
             {
                 throw new UsageException($"--fix: {ParameterNames.CliName(def)} is given twice (also by --area or another --fix)");
             }
-            fixedValues[def.Key] = ParameterNames.ParseValueSi(def, item[(eq + 1)..].Trim(), "--fix");
-            freed.Remove(def.Key);
+            fixedValues[def.Id] = ParameterNames.ParseValueSi(def, item[(eq + 1)..].Trim(), "--fix");
+            freed.Remove(def.Id);
             summary.Add($"{ParameterNames.CliName(def)} fixed at {item[(eq + 1)..].Trim()} {def.DisplayUnit}".TrimEnd());
+        }
+        var bounds = ImmutableDictionary.CreateBuilder<ParameterKey, ParameterBounds>();
+        foreach (string item in parse.GetValue(Bound) ?? [])
+        {
+            var (def, value) = SplitItem(item, "--bound", "barrier-height=1.5:2.5", FindInAny);
+            CheckAdjustable(def, "--bound", fixedValues, freed);
+            if (bounds.ContainsKey(def.Id)) throw new UsageException($"--bound: {ParameterNames.CliName(def)} is given twice");
+            bounds[def.Id] = ParameterNames.ParseBoundsSi(def, value, "--bound");
+            summary.Add($"{ParameterNames.CliName(def)} bounded to {value} {def.DisplayUnit}".TrimEnd());
+        }
+        foreach (string item in parse.GetValue(Start) ?? [])
+        {
+            var (def, value) = SplitItem(item, "--start", "thickness=2", FindInAny);
+            CheckAdjustable(def, "--start", fixedValues, freed);
+            if (starts.ContainsKey(def.Id) && def.Id != ParameterKey.MassRatio) throw new UsageException($"--start: {ParameterNames.CliName(def)} is given twice");
+            double start = ParameterNames.ParseValueSi(def, value, "--start");
+            if (bounds.TryGetValue(def.Id, out var b) && !(start > b.LowerSi && start < b.UpperSi))
+            {
+                throw new UsageException($"--start: {ParameterNames.CliName(def)} = {value} {def.DisplayUnit} lies outside its --bound".Replace("  ", " ", StringComparison.Ordinal));
+            }
+            starts[def.Id] = start;
+            summary.Add($"{ParameterNames.CliName(def)} starting at {value} {def.DisplayUnit}".TrimEnd());
         }
         double? noise = parse.GetValue(Noise);
         if (noise is double r && (!(r > 0) || !double.IsFinite(r))) throw new UsageException($"--noise: {r} must be a positive number");
@@ -418,6 +453,7 @@ internal sealed class FitOptionSet
             FixedValues = fixedValues.ToImmutable(),
             FreedKeys = freed.ToImmutable(),
             StartValues = starts.ToImmutable(),
+            Bounds = bounds.ToImmutable(),
             RelativeNoise = noise,
             NoiseFloorA = floor,
             ComplianceA = compliance,
@@ -440,6 +476,29 @@ internal sealed class FitOptionSet
             BootstrapSeed = parse.GetValue(Seed),
         };
         return (plan, string.Join("; ", summary));
+    }
+
+    /// <summary>NAME=VALUE of <paramref name="option"/> split, with the parameter found.</summary>
+    private static (ParameterDefinition Def, string Value) SplitItem(string item, string option, string example, Func<string, string, ParameterDefinition> find)
+    {
+        int eq = item.IndexOf('=', StringComparison.Ordinal);
+        if (eq <= 0 || eq == item.Length - 1) throw new UsageException($"{option}: '{item}' must be NAME=VALUE, for example {example}");
+        return (find(item[..eq].Trim(), option), item[(eq + 1)..].Trim());
+    }
+
+    /// <summary>A start value or bound applies to a parameter the fit adjusts: not fixed, and freed when fixed by default.</summary>
+    private static void CheckAdjustable(ParameterDefinition def, string option, ImmutableDictionary<ParameterKey, double>.Builder fixedValues,
+        ImmutableHashSet<ParameterKey>.Builder freed)
+    {
+        string name = ParameterNames.CliName(def);
+        if (def.FixedByDefault && !freed.Contains(def.Id))
+        {
+            throw new UsageException($"{option}: {name} is fixed unless freed; add --free {name}");
+        }
+        if (fixedValues.ContainsKey(def.Id))
+        {
+            throw new UsageException($"{option}: {name} is fixed (by --fix or --area); a fixed parameter has no start value or bounds");
+        }
     }
 
     /// <summary>Settings outside <see cref="FitOptions"/> that change a fit, for the results database's identity.</summary>
@@ -518,7 +577,7 @@ internal static class FitCommand
             CvSummary? cvSummary = null;
             if (parse.GetValue(cv) is string cvPath)
             {
-                double? area = parse.GetValue(cvArea) is string areaText ? QuantityParser.ParseAreaM2(areaText) : null;
+                double? area = parse.GetValue(cvArea) is string areaText ? QuantityParser.ParseAreaM2(areaText, "--cv-area") : null;
                 try
                 {
                     cvSummary = CapacitanceVoltageInput.Read(cvPath, area, plan.ModelOptions.Mos.OxidePermittivity);

@@ -3,6 +3,7 @@ using System.Globalization;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
 using JunctionFit.Lots;
+using JunctionFit.Physics;
 using JunctionFit.Reporting;
 using JunctionFit.Results;
 using JunctionFit.Storage;
@@ -269,7 +270,7 @@ internal static class LotAnalyses
                     return;
                 }
                 var free = plan.Fit(curve);
-                var fixedPlan = plan.WithOptions(plan.Options with { FixedValues = plan.Options.FixedValues.SetItem("thickness_nm", dNm.Value * 1e-9) });
+                var fixedPlan = plan.WithOptions(plan.Options with { FixedValues = plan.Options.FixedValues.SetItem(ParameterKey.Thickness, ParameterKey.Thickness.FromDisplay(dNm.Value)) });
                 var pinned = fixedPlan.Fit(curve);
                 if (free.Quality is not { } qf || pinned.Quality is not { } qp || free.Status == FitStatus.Failed || pinned.Status == FitStatus.Failed) return;
                 int k = free.Parameters.Count(p => !p.IsFixed);
@@ -288,7 +289,7 @@ internal static class LotAnalyses
                 continue;
             }
             var test = ThicknessComparison.ConsistencyFTest(rssFree, dfFree, rssFixed, refitted);
-            double? median = LotStatistics.Median(dies.Select(r => r.ValueOf("thickness_nm")).OfType<double>().ToList());
+            double? median = LotStatistics.Median(dies.Select(r => r.ValueOf(ParameterKey.Thickness.Name)).OfType<double>().ToList());
             bool large = median is double m && Math.Abs(m - ellipsometric) > toleranceNm;
             bool flagged = !test.Consistent && large;
             string verdict = flagged
@@ -318,7 +319,7 @@ internal static class LotAnalyses
         var found = new List<(ResultRow Row, string Key, double Value, double Median, double Z)>();
         foreach (var lot in rows.Where(r => r.IsGood && r.Lot is not null).GroupBy(r => r.Lot!))
         {
-            foreach (string key in (string[])["barrier_height_eV", "thickness_nm"])
+            foreach (string key in (string[])[ParameterKey.BarrierHeight.Name, ParameterKey.Thickness.Name])
             {
                 var values = lot.Select(r => r.ValueOf(key)).OfType<double>().ToList();
                 if (values.Count < 5) continue;

@@ -59,18 +59,18 @@ internal static class SimulateCommand
             {
                 if (idx is int k) theta[k] = 0.0;
             }
-            void Set(string name, double si, string option)
+            void Set(ParameterKey key, double si, string option)
             {
-                int k = junction.IndexOf(ParameterNames.Find(junction, name, option).Key);
+                int k = junction.IndexOf(ParameterNames.Find(junction, key.Name, option).Id);
                 theta[k] = si;
             }
-            Set("barrier_height_eV", Positive(parse.GetValue(barrierHeight), "--barrier-height") * PhysicalConstants.JoulePerElectronVolt, "--barrier-height");
-            Set("thickness_nm", Positive(parse.GetValue(thickness), "--thickness") * 1e-9, "--thickness");
-            Set("area_m2", QuantityParser.ParseAreaM2(parse.GetValue(area) ?? ""), "--area");
+            Set(ParameterKey.BarrierHeight, ParameterKey.BarrierHeight.FromDisplay(Positive(parse.GetValue(barrierHeight), "--barrier-height")), "--barrier-height");
+            Set(ParameterKey.Thickness, ParameterKey.Thickness.FromDisplay(Positive(parse.GetValue(thickness), "--thickness")), "--thickness");
+            Set(ParameterKey.Area, QuantityParser.ParseAreaM2(parse.GetValue(area) ?? "", "--area"), "--area");
             double mr = parse.GetValue(massRatio);
             // The mos model has its own oxide masses (electrons 0.40, holes 0.32), as in fit: --mass-ratio applies only when given.
             bool massGiven = !junction.Barrier.Name.Equals("mos", StringComparison.OrdinalIgnoreCase) || parse.GetResult(massRatio) is { Implicit: false };
-            if (junction.IndexOf("mass_ratio") >= 0 && massGiven) Set("mass_ratio", Positive(mr, "--mass-ratio"), "--mass-ratio");
+            if (junction.IndexOf(ParameterKey.MassRatio) >= 0 && massGiven) Set(ParameterKey.MassRatio, Positive(mr, "--mass-ratio"), "--mass-ratio");
             if (parse.GetValue(asymmetry) is double asym)
             {
                 var def = ParameterNames.Find(junction, "asymmetry", "--asymmetry");

@@ -62,6 +62,7 @@ public static class BootstrapIntervals
         ArgumentNullException.ThrowIfNull(model);
         ArgumentNullException.ThrowIfNull(options);
         ArgumentNullException.ThrowIfNull(fit);
+        model = model.WithBounds(options.Bounds);
         ArgumentOutOfRangeException.ThrowIfLessThan(replicates, MinimumReplicates);
         if (fit.Status == FitStatus.Failed || fit.Quality is null || fit.Curve is null)
         {

@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using JunctionFit.Common;
+using JunctionFit.Physics;
 
 namespace JunctionFit.Fitting;
 
@@ -8,14 +9,26 @@ namespace JunctionFit.Fitting;
 /// </summary>
 public sealed record FitOptions
 {
-    /// <summary>Parameters held fixed at the given SI value, by key (for example <c>area_m2</c>).</summary>
-    public ImmutableDictionary<string, double> FixedValues { get; init; } = ImmutableDictionary<string, double>.Empty;
+    /// <summary>
+    /// Parameters held fixed, by key, at a value in the key's SI unit (<see cref="ParameterKey.SiUnit"/>: the thickness in
+    /// metres, the barrier height in joules, the area in m²), whatever the display unit in the key's name.
+    /// </summary>
+    public ImmutableDictionary<ParameterKey, double> FixedValues { get; init; } = ImmutableDictionary<ParameterKey, double>.Empty;
 
     /// <summary>Keys of parameters that are fixed by default (mass ratio) but freed by the user.</summary>
-    public ImmutableHashSet<string> FreedKeys { get; init; } = [];
+    public ImmutableHashSet<ParameterKey> FreedKeys { get; init; } = [];
 
-    /// <summary>Start values in SI by key, overriding the data-driven guess.</summary>
-    public ImmutableDictionary<string, double> StartValues { get; init; } = ImmutableDictionary<string, double>.Empty;
+    /// <summary>
+    /// Start values by key in the key's SI unit, overriding the data-driven guess: a given start of the barrier height or
+    /// the thickness replaces the start grid along that parameter.
+    /// </summary>
+    public ImmutableDictionary<ParameterKey, double> StartValues { get; init; } = ImmutableDictionary<ParameterKey, double>.Empty;
+
+    /// <summary>
+    /// Fit bounds by key in SI, narrowing the physical range of a free parameter (<see cref="ParameterDefinition.WithBounds"/>);
+    /// intervals and profile searches stay inside them.
+    /// </summary>
+    public ImmutableDictionary<ParameterKey, ParameterBounds> Bounds { get; init; } = ImmutableDictionary<ParameterKey, ParameterBounds>.Empty;
 
     /// <summary>Relative current noise r of σ_I² = (r·I)² + σ_floor²; null: unknown (weights relative, covariance scaled).</summary>
     public double? RelativeNoise { get; init => field = value is double v ? Guard.Positive(v) : null; }

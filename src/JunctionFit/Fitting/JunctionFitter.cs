@@ -53,6 +53,7 @@ public static class JunctionFitter
         ArgumentNullException.ThrowIfNull(curve);
         ArgumentNullException.ThrowIfNull(model);
         ArgumentNullException.ThrowIfNull(options);
+        model = model.WithBounds(options.Bounds);
         var defs = model.Parameters;
         int p = defs.Count;
         string modelName = model.Barrier.Name;
@@ -63,7 +64,7 @@ public static class JunctionFitter
         for (int k = 0; k < p; k++)
         {
             var def = defs[k];
-            if (options.FixedValues.TryGetValue(def.Key, out double fixedValue)
+            if (options.FixedValues.TryGetValue(def.Id, out double fixedValue)
                 || (k == model.AreaIndex && options.FixAreaFromMetadata && curve.AreaM2 is double stated && (fixedValue = stated) > 0))
             {
                 theta[k] = fixedValue;
@@ -71,8 +72,8 @@ public static class JunctionFitter
             }
             else
             {
-                isFree[k] = !def.FixedByDefault || options.FreedKeys.Contains(def.Key);
-                theta[k] = options.StartValues.TryGetValue(def.Key, out double s) ? s
+                isFree[k] = !def.FixedByDefault || options.FreedKeys.Contains(def.Id);
+                theta[k] = options.StartValues.TryGetValue(def.Id, out double s) ? s
                     : k == model.AreaIndex && curve.AreaM2 is double a ? a
                     : def.DefaultSi;
             }
@@ -120,6 +121,10 @@ public static class JunctionFitter
         int[] iterIndex = profileArea ? Array.FindAll(freeIndex, k => k != model.AreaIndex) : freeIndex;
         var problem = new LogCurrentProblem(model, vUsed, yUsed, invSigma, iterIndex, theta, profileArea);
         var starts = GridStarts(model, theta, isFree, vUsed, yUsed, invSigma, options.Starts);
+        // Start values given for free barrier parameters (FitOptions.StartValues) are tried first, before the grid's.
+        bool startGiven = false;
+        for (int k = 0; k < p; k++) startGiven |= isFree[k] && k != model.AreaIndex && options.StartValues.ContainsKey(defs[k].Id);
+        if (startGiven) starts.Insert(0, (double[])theta.Clone());
         bool noiseWeighted = options.RelativeNoise is not null || data.EstimatedRelativeNoise is not null;
         LeastSquaresSolution? best = null;
         int iterations = 0;
@@ -177,7 +182,7 @@ public static class JunctionFitter
         {
             // With the area free these data do not determine the barrier; the file states an area, so the fit falls back to it
             // (as --area-from-file would) and says so, rather than giving no value.
-            var fallback = Fit(curve, model, options with { FixedValues = options.FixedValues.SetItem(model.Parameters[model.AreaIndex].Key, statedArea) });
+            var fallback = Fit(curve, model, options with { FixedValues = options.FixedValues.SetItem(model.Parameters[model.AreaIndex].Id, statedArea) });
             if (fallback.Status != FitStatus.Failed && !fallback.Diagnoses.Contains("undetermined"))
             {
                 string bounds = string.Join(", ", result.Parameters.Where(q => q.IsUndetermined && q.Bound is not null)
@@ -612,11 +617,11 @@ public static class JunctionFitter
             minConductance = Math.Min(minConductance, g);
             if (Math.Abs(v[i]) > topV) { topV = Math.Abs(v[i]); topResistance = 1.0 / g; }
         }
-        if (model.LeakageConductanceIndex is int leak && isFree[leak] && !options.StartValues.ContainsKey(model.Parameters[leak].Key))
+        if (model.LeakageConductanceIndex is int leak && isFree[leak] && !options.StartValues.ContainsKey(model.Parameters[leak].Id))
         {
             theta[leak] = 0.1 * minConductance;
         }
-        if (model.SeriesResistanceIndex is int rs && isFree[rs] && !options.StartValues.ContainsKey(model.Parameters[rs].Key))
+        if (model.SeriesResistanceIndex is int rs && isFree[rs] && !options.StartValues.ContainsKey(model.Parameters[rs].Id))
         {
             theta[rs] = 0.02 * topResistance;
         }
@@ -834,6 +839,31 @@ public static class JunctionFitter
 
         public bool AreaFree { get; }
 
+        /// <summary>Grid φ: the standard grid, or spread over the fit bounds when <see cref="FitOptions.Bounds"/> narrow them.</summary>
+        private double Phi(int a) => Spread(_model.Parameters[_phiIndex], GridPhi(0), GridPhi(GridSize - 1), a) ?? GridPhi(a);
+
+        /// <summary>Grid d: the standard grid, or spread over the fit bounds.</summary>
+        private double Thickness(int b) => Spread(_model.Parameters[_dIndex], GridThickness(0), GridThickness(GridSize - 1), b) ?? GridThickness(b);
+
+        /// <summary>
+        /// Null when the fit bounds hold the whole standard grid [<paramref name="gridLow"/>, <paramref name="gridHigh"/>];
+        /// otherwise cell <paramref name="index"/> of a log-spaced grid over the part of it inside the bounds (or over the
+        /// bounds themselves when they miss it), at cell centres so that no start sits on a bound.
+        /// </summary>
+        private static double? Spread(ParameterDefinition def, double gridLow, double gridHigh, int index)
+        {
+            if (def.LowerSi < gridLow && def.UpperSi > gridHigh) return null;
+            double lo = Math.Max(gridLow, def.LowerSi), hi = Math.Min(gridHigh, def.UpperSi);
+            if (!(lo < hi))
+            {
+                lo = def.LowerSi;
+                hi = double.IsFinite(def.UpperSi) ? def.UpperSi : 10.0 * def.LowerSi;
+                if (!(lo > 0)) lo = 0.01 * hi;
+            }
+            double t = (index + 0.5) / GridSize;
+            return Math.Exp(Math.Log(lo) + (Math.Log(hi) - Math.Log(lo)) * t);
+        }
+
         public int Cells => _nPhi * _nD;
 
         /// <summary>The φ index of a cell.</summary>
@@ -860,8 +890,8 @@ public static class JunctionFitter
         /// </summary>
         public double Cost(int cell, double abandonAbove)
         {
-            if (_phiFree) _theta[_phiIndex] = GridPhi(cell / _nD);
-            if (_dFree) _theta[_dIndex] = GridThickness(cell % _nD);
+            if (_phiFree) _theta[_phiIndex] = Phi(cell / _nD);
+            if (_dFree) _theta[_dIndex] = Thickness(cell % _nD);
             int m = _m;
             double[] v = _v, y = _y, w = _w, r = _r;
             if (!AreaFree)
@@ -918,8 +948,8 @@ public static class JunctionFitter
             foreach (int cell in chosen)
             {
                 var start = (double[])_template.Clone();
-                if (_phiFree) start[_phiIndex] = GridPhi(cell / _nD);
-                if (_dFree) start[_dIndex] = GridThickness(cell % _nD);
+                if (_phiFree) start[_phiIndex] = Phi(cell / _nD);
+                if (_dFree) start[_dIndex] = Thickness(cell % _nD);
                 if (AreaFree) start[_areaIndex] = Math.Exp(_logAreas[cell]);
                 starts.Add(start);
             }

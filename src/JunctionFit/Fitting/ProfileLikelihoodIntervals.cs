@@ -86,6 +86,7 @@ public static class ProfileLikelihoodIntervals
         ArgumentNullException.ThrowIfNull(model);
         ArgumentNullException.ThrowIfNull(options);
         ArgumentNullException.ThrowIfNull(fit);
+        model = model.WithBounds(options.Bounds);
         if (fit.Status == FitStatus.Failed || fit.Quality is null)
         {
             return fit with { Warnings = fit.Warnings.Add("profile-likelihood intervals not computed: the fit failed") };
@@ -207,15 +208,15 @@ public static class ProfileLikelihoodIntervals
             double theta = atBound
                 ? (sign < 0 ? _def.LowerSi : _def.UpperSi)
                 : ParameterTransforms.FromSolver(_def, xHat + sign * delta);
-            var starts = ImmutableDictionary.CreateBuilder<string, double>();
+            var starts = ImmutableDictionary.CreateBuilder<ParameterKey, double>();
             foreach (var pair in options.StartValues) starts[pair.Key] = pair.Value;
             for (int k = 0; k < _warm.Length; k++)
             {
-                if (k != index && !fit.Parameters[k].IsFixed) starts[model.Parameters[k].Key] = _warm[k];
+                if (k != index && !fit.Parameters[k].IsFixed) starts[model.Parameters[k].Id] = _warm[k];
             }
             var refitOptions = options with
             {
-                FixedValues = options.FixedValues.SetItem(_def.Key, theta),
+                FixedValues = options.FixedValues.SetItem(_def.Id, theta),
                 StartValues = starts.ToImmutable(),
                 DirectionFits = false,
             };

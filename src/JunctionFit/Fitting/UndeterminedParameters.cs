@@ -26,15 +26,13 @@ internal static class UndeterminedParameters
     /// </summary>
     public static (double Lower, double Upper) PlausibleRange(ParameterDefinition def)
     {
-        double lower = def.Key switch
-        {
-            "thickness_nm" => 0.1e-9,
-            "barrier_height_eV" => 0.01 * PhysicalConstants.JoulePerElectronVolt,
-            "mass_ratio" => 0.01,
-            "area_m2" => 1e-20,
-            _ => def.LowerSi,
-        };
-        double upper = def.Key == "area_m2" ? 1e-2 : def.UpperSi;
+        var key = def.Id;
+        double lower = key == ParameterKey.Thickness ? 0.1e-9
+            : key == ParameterKey.BarrierHeight ? 0.01 * PhysicalConstants.JoulePerElectronVolt
+            : key == ParameterKey.MassRatio ? 0.01
+            : key == ParameterKey.Area ? 1e-20
+            : def.LowerSi;
+        double upper = key == ParameterKey.Area ? Math.Min(1e-2, def.UpperSi) : def.UpperSi;
         return (Math.Max(lower, def.LowerSi), upper);
     }
 

@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using JunctionFit.Physics;
 
 namespace JunctionFit.Lots;
 
@@ -72,10 +73,10 @@ public sealed record DriftOptions
     public static ImmutableDictionary<string, PracticalThreshold> DefaultThresholds { get; } =
         ImmutableDictionary.CreateRange(StringComparer.Ordinal,
         [
-            new KeyValuePair<string, PracticalThreshold>("barrier_height_eV", PracticalThreshold.Absolute(0.05)),
-            new KeyValuePair<string, PracticalThreshold>("thickness_nm", PracticalThreshold.Absolute(0.05)),
-            new KeyValuePair<string, PracticalThreshold>("area_m2", PracticalThreshold.Relative(0.10)),
-            new KeyValuePair<string, PracticalThreshold>("flatband_voltage_V", PracticalThreshold.Absolute(0.05)),
+            new KeyValuePair<string, PracticalThreshold>(ParameterKey.BarrierHeight.Name, PracticalThreshold.Absolute(0.05)),
+            new KeyValuePair<string, PracticalThreshold>(ParameterKey.Thickness.Name, PracticalThreshold.Absolute(0.05)),
+            new KeyValuePair<string, PracticalThreshold>(ParameterKey.Area.Name, PracticalThreshold.Relative(0.10)),
+            new KeyValuePair<string, PracticalThreshold>(ParameterKey.FlatBandVoltage.Name, PracticalThreshold.Absolute(0.05)),
         ]);
 
     /// <summary>Reference lots: their good dies are pooled as the reference sample, and they set the control limits.</summary>

@@ -2,6 +2,7 @@ using System.Collections.Immutable;
 using System.Globalization;
 using MathNet.Numerics.Distributions;
 using JunctionFit.Results;
+using JunctionFit.Physics;
 
 namespace JunctionFit.Lots;
 
@@ -113,7 +114,7 @@ public sealed record ConsistencyTest(double F, int NumeratorDf, int DenominatorD
 public static class ThicknessComparison
 {
     /// <summary>Key of the thickness in result rows.</summary>
-    public const string ThicknessKey = "thickness_nm";
+    public static string ThicknessKey => ParameterKey.Thickness.Name;
 
     /// <summary>z for 95 % limits of agreement, as in Bland &amp; Altman (1986).</summary>
     public const double LimitsZ = 1.96;

@@ -48,6 +48,44 @@ public sealed class JunctionCurrentModel
         _parameters = [.. list];
     }
 
+    private JunctionCurrentModel(JunctionCurrentModel model, ParameterDefinition[] parameters)
+    {
+        Barrier = model.Barrier;
+        Parasitics = model.Parasitics;
+        _bias = model._bias;
+        _barrierCount = model._barrierCount;
+        AreaIndex = model.AreaIndex;
+        _seriesIndex = model._seriesIndex;
+        _leakIndex = model._leakIndex;
+        _voltageOffsetIndex = model._voltageOffsetIndex;
+        _currentOffsetIndex = model._currentOffsetIndex;
+        _parameters = parameters;
+    }
+
+    /// <summary>
+    /// This model with the fit bounds of the parameters named in <paramref name="bounds"/> narrowed
+    /// (<see cref="ParameterDefinition.WithBounds"/>); keys the model does not have are ignored. The current is unchanged.
+    /// </summary>
+    /// <param name="bounds">Bounds in SI by key.</param>
+    /// <returns>The bounded model, or this one when no bound applies.</returns>
+    /// <exception cref="ArgumentException">A bound leaves nothing of its parameter's range.</exception>
+    public JunctionCurrentModel WithBounds(IReadOnlyDictionary<ParameterKey, ParameterBounds> bounds)
+    {
+        ArgumentNullException.ThrowIfNull(bounds);
+        if (bounds.Count == 0) return this;
+        var parameters = (ParameterDefinition[])_parameters.Clone();
+        bool any = false;
+        for (int k = 0; k < parameters.Length; k++)
+        {
+            if (!bounds.TryGetValue(parameters[k].Id, out var b)) continue;
+            var bounded = parameters[k].WithBounds(b);
+            if (bounded == parameters[k]) continue;
+            parameters[k] = bounded;
+            any = true;
+        }
+        return any ? new JunctionCurrentModel(this, parameters) : this;
+    }
+
     /// <summary>The barrier model.</summary>
     public IBarrierModel Barrier { get; }
 
@@ -80,6 +118,13 @@ public sealed class JunctionCurrentModel
             if (string.Equals(_parameters[i].Key, key, StringComparison.Ordinal)) return i;
         }
         return -1;
+    }
+
+    /// <summary>Index of the parameter with <paramref name="key"/>, or −1.</summary>
+    public int IndexOf(ParameterKey key)
+    {
+        ArgumentNullException.ThrowIfNull(key);
+        return IndexOf(key.Name);
     }
 
     /// <summary>Current in ampere.</summary>

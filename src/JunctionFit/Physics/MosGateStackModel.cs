@@ -79,7 +79,7 @@ public sealed class MosGateStackModel : IBarrierModel
 
     /// <summary>Flat-band voltage: key <c>flatband_voltage_V</c>, SI volt, −3 V &lt; V_fb &lt; 3 V.</summary>
     public static ParameterDefinition FlatBandVoltage { get; } = new(
-        "flatband_voltage_V", "V_fb", "flat-band voltage", "V", 1.0, -3.0, 3.0, -0.9, ParameterTransform.Logistic, false);
+        ParameterKey.FlatBandVoltage, "V_fb", "flat-band voltage", -0.9, ParameterTransform.Logistic, false);
 
     /// <summary>Creates the model for a gate stack.</summary>
     /// <param name="stack">Substrate, gate and doping; null for <see cref="MosStackOptions.Default"/>.</param>

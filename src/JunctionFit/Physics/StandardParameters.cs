@@ -7,9 +7,7 @@ public static class StandardParameters
 
     /// <summary>Barrier height φ: key <c>barrier_height_eV</c>, SI joule, bounds 0 &lt; φ ≤ 20 eV.</summary>
     public static ParameterDefinition BarrierHeight { get; } = new(
-        "barrier_height_eV", "φ", "barrier height", "eV", 1.0 / PhysicalConstants.JoulePerElectronVolt,
-        0.0, 20.0 * PhysicalConstants.JoulePerElectronVolt, 2.0 * PhysicalConstants.JoulePerElectronVolt,
-        ParameterTransform.Log, false);
+        ParameterKey.BarrierHeight, "φ", "barrier height", 2.0 * PhysicalConstants.JoulePerElectronVolt, ParameterTransform.Log, false);
 
     /// <summary>
     /// Mean barrier height φ̄ = (φ_bottom + φ_top)/2 of an asymmetric barrier: same key, unit and bounds as
@@ -23,18 +21,15 @@ public static class StandardParameters
 
     /// <summary>Barrier thickness d: key <c>thickness_nm</c>, SI metre, bounds 0 &lt; d ≤ 100 nm.</summary>
     public static ParameterDefinition Thickness { get; } = new(
-        "thickness_nm", "d", "barrier thickness", "nm", 1e9,
-        0.0, 100e-9, 1.5e-9, ParameterTransform.Log, false);
+        ParameterKey.Thickness, "d", "barrier thickness", 1.5e-9, ParameterTransform.Log, false);
 
     /// <summary>Effective mass ratio m*/mₑ: key <c>mass_ratio</c>, fixed at 1 unless freed.</summary>
     public static ParameterDefinition MassRatio { get; } = new(
-        "mass_ratio", "m*/mₑ", "effective mass ratio", "", 1.0,
-        0.0, 10.0, 1.0, ParameterTransform.Log, true);
+        ParameterKey.MassRatio, "m*/mₑ", "effective mass ratio", 1.0, ParameterTransform.Log, true);
 
     /// <summary>Effective conducting area: key <c>area_m2</c>, SI m², 0 &lt; area.</summary>
     public static ParameterDefinition Area { get; } = new(
-        "area_m2", "A", "effective area", "m²", 1.0,
-        0.0, double.PositiveInfinity, 1e-10, ParameterTransform.Log, false);
+        ParameterKey.Area, "A", "effective area", 1e-10, ParameterTransform.Log, false);
 
     /// <summary>
     /// Barrier asymmetry Δφ = φ_top − φ_bottom: key <c>asymmetry_eV</c>, SI joule, −10 eV &lt; Δφ &lt; 10 eV, start 0.
@@ -42,38 +37,31 @@ public static class StandardParameters
     /// φ_bottom the height at the grounded (bottom) electrode. Δφ &gt; 0 makes |I(−V)| &gt; |I(+V)| at low bias.
     /// </summary>
     public static ParameterDefinition Asymmetry { get; } = new(
-        "asymmetry_eV", "Δφ", "barrier asymmetry, top interface minus bottom interface", "eV", 1.0 / Ev,
-        -10.0 * Ev, 10.0 * Ev, 0.0, ParameterTransform.Logistic, false);
+        ParameterKey.Asymmetry, "Δφ", "barrier asymmetry, top interface minus bottom interface", 0.0, ParameterTransform.Logistic, false);
 
     /// <summary>Relative permittivity ε_r of the barrier for the image force: key <c>relative_permittivity</c>, fixed by default.</summary>
     public static ParameterDefinition RelativePermittivity { get; } = new(
-        "relative_permittivity", "ε_r", "relative permittivity of the barrier seen by the image charge", "", 1.0,
-        1.0, 100.0, 3.9, ParameterTransform.Logistic, true);
+        ParameterKey.RelativePermittivity, "ε_r", "relative permittivity of the barrier seen by the image charge", 3.9, ParameterTransform.Logistic, true);
 
     /// <summary>Fermi energy E_F of the electrodes above their conduction-band bottom: key <c>fermi_energy_eV</c>, fixed by default.</summary>
     public static ParameterDefinition FermiEnergy { get; } = new(
-        "fermi_energy_eV", "E_F", "Fermi energy of the electrodes", "eV", 1.0 / Ev,
-        0.0, 30.0 * Ev, 5.5 * Ev, ParameterTransform.Log, true);
+        ParameterKey.FermiEnergy, "E_F", "Fermi energy of the electrodes", 5.5 * Ev, ParameterTransform.Log, true);
 
     /// <summary>Series resistance R_s: key <c>series_resistance_ohm</c>, SI ohm, R_s &gt; 0.</summary>
     public static ParameterDefinition SeriesResistance { get; } = new(
-        "series_resistance_ohm", "R_s", "series resistance (leads, contacts, electrodes)", "Ω", 1.0,
-        0.0, double.PositiveInfinity, 1.0, ParameterTransform.Log, false);
+        ParameterKey.SeriesResistance, "R_s", "series resistance (leads, contacts, electrodes)", 1.0, ParameterTransform.Log, false);
 
     /// <summary>Parallel leakage conductance G_leak: key <c>leakage_conductance_S</c>, SI siemens, G &gt; 0.</summary>
     public static ParameterDefinition LeakageConductance { get; } = new(
-        "leakage_conductance_S", "G_leak", "parallel leakage conductance", "S", 1.0,
-        0.0, double.PositiveInfinity, 1e-12, ParameterTransform.Log, false);
+        ParameterKey.LeakageConductance, "G_leak", "parallel leakage conductance", 1e-12, ParameterTransform.Log, false);
 
     /// <summary>Instrument voltage offset V₀: key <c>voltage_offset_V</c>, SI volt, start 0, unbounded.</summary>
     public static ParameterDefinition VoltageOffset { get; } = new(
-        "voltage_offset_V", "V₀", "instrument voltage offset", "V", 1.0,
-        double.NegativeInfinity, double.PositiveInfinity, 0.0, ParameterTransform.Identity, false);
+        ParameterKey.VoltageOffset, "V₀", "instrument voltage offset", 0.0, ParameterTransform.Identity, false);
 
     /// <summary>Instrument current offset I₀: key <c>current_offset_A</c>, SI ampere, start 0, unbounded.</summary>
     public static ParameterDefinition CurrentOffset { get; } = new(
-        "current_offset_A", "I₀", "instrument current offset", "A", 1.0,
-        double.NegativeInfinity, double.PositiveInfinity, 0.0, ParameterTransform.Identity, false);
+        ParameterKey.CurrentOffset, "I₀", "instrument current offset", 0.0, ParameterTransform.Identity, false);
 
     /// <summary>φ, d, m*/mₑ in that order.</summary>
     public static IReadOnlyList<ParameterDefinition> BarrierHeightThicknessMass { get; } =

@@ -1,4 +1,5 @@
 using System.Globalization;
+using JunctionFit.Physics;
 using JunctionFit.Results;
 
 namespace JunctionFit.Reporting;
@@ -19,7 +20,7 @@ internal readonly record struct DisplayQuantity(
         ArgumentNullException.ThrowIfNull(p);
         double factor = 1.0;
         string unit = p.Unit;
-        if (string.Equals(p.Key, "area_m2", StringComparison.Ordinal))
+        if (string.Equals(p.Key, ParameterKey.Area.Name, StringComparison.Ordinal))
         {
             factor = 1e12; // m² → µm²
             unit = "µm²";

@@ -1,6 +1,7 @@
 using System.Buffers;
 using System.Text;
 using System.Text.Json;
+using JunctionFit.Physics;
 using JunctionFit.Results;
 
 namespace JunctionFit.Reporting;
@@ -156,11 +157,11 @@ public static class FitJsonFormatter
             w.WriteNumber("value", cv.CapacitanceEquivalentThicknessNm);
             w.WriteNumber("c_max_F", cv.MaxCapacitanceF);
             w.WriteNumber("c_max_bias_V", cv.MaxCapacitanceBiasV);
-            w.WriteNumber("area_m2", cv.AreaM2);
+            w.WriteNumber(ParameterKey.Area.Name, cv.AreaM2);
             w.WriteBoolean("saturated", cv.Saturated);
-            if (result.Find("thickness_nm") is { } tox) w.WriteNumber("cet_minus_thickness_nm", cv.CapacitanceEquivalentThicknessNm - tox.Value);
+            if (result.Find(ParameterKey.Thickness.Name) is { } tox) w.WriteNumber("cet_minus_thickness_nm", cv.CapacitanceEquivalentThicknessNm - tox.Value);
             WriteNumberOrNull(w, "doping_cm3", cv.DopingM3 / 1e6);
-            WriteNumberOrNull(w, "flatband_voltage_V", cv.FlatBandVoltageV);
+            WriteNumberOrNull(w, ParameterKey.FlatBandVoltage.Name, cv.FlatBandVoltageV);
             w.WriteEndObject();
         }
         ResultTableWriter.WriteJsonFields(w, ResultSchema.PlacementColumns, ResultSchema.Placement(result));

@@ -3,6 +3,7 @@ using JunctionFit.Results;
 using JunctionFit.Lots;
 using OxyPlot;
 using OxyPlot.SkiaSharp;
+using JunctionFit.Physics;
 
 namespace JunctionFit.Reporting;
 
@@ -27,16 +28,14 @@ internal static class LotPlotSupport
         public string Format(double displayValue) => DisplayQuantity.FormatGeneral(displayValue);
     }
 
-    public static Display DisplayOf(string key) => key switch
-    {
-        "barrier_height_eV" => new("φ", "barrier height", "eV", 1),
-        "thickness_nm" => new("d", "thickness", "nm", 1),
-        "area_m2" => new("A", "effective area", "µm²", 1e12),
-        "mass_ratio" => new("m*/mₑ", "mass ratio", "", 1),
-        ResultRow.TransitionVoltageKey => new("V_t", "transition voltage", "V", 1),
-        "flatband_voltage_V" => new("V_fb", "flat-band voltage", "V", 1),
-        _ => new(key, key, "", 1),
-    };
+    public static Display DisplayOf(string key)
+        => key == ParameterKey.BarrierHeight.Name ? new("φ", "barrier height", "eV", 1)
+        : key == ParameterKey.Thickness.Name ? new("d", "thickness", "nm", 1)
+        : key == ParameterKey.Area.Name ? new("A", "effective area", "µm²", 1e12)
+        : key == ParameterKey.MassRatio.Name ? new("m*/mₑ", "mass ratio", "", 1)
+        : key == ResultRow.TransitionVoltageKey ? new("V_t", "transition voltage", "V", 1)
+        : key == ParameterKey.FlatBandVoltage.Name ? new("V_fb", "flat-band voltage", "V", 1)
+        : new(key, key, "", 1);
 
     public static void CheckSide(int px, string name)
     {

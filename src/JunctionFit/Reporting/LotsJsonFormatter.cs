@@ -2,6 +2,7 @@ using System.Buffers;
 using System.Text;
 using System.Text.Json;
 using JunctionFit.Lots;
+using JunctionFit.Physics;
 
 namespace JunctionFit.Reporting;
 
@@ -88,7 +89,7 @@ public static class LotsJsonFormatter
                 w.WriteString("wafer", u.Row.Wafer);
                 Integer(w, "die_x", u.Row.DieX);
                 Integer(w, "die_y", u.Row.DieY);
-                w.WriteNumber("thickness_nm", u.Row.ThicknessNm);
+                w.WriteNumber(ParameterKey.Thickness.Name, u.Row.ThicknessNm);
                 w.WriteString("reason", u.Reason);
                 w.WriteEndObject();
             }

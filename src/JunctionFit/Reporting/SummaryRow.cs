@@ -1,4 +1,5 @@
 using System.Globalization;
+using JunctionFit.Physics;
 using JunctionFit.Results;
 
 namespace JunctionFit.Reporting;
@@ -7,13 +8,13 @@ namespace JunctionFit.Reporting;
 internal static class SummaryRow
 {
     /// <summary>Keys of the headline parameters shown in the HTML and console summaries.</summary>
-    public const string BarrierHeightKey = "barrier_height_eV";
+    public static string BarrierHeightKey => ParameterKey.BarrierHeight.Name;
 
     /// <summary>Thickness key.</summary>
-    public const string ThicknessKey = "thickness_nm";
+    public static string ThicknessKey => ParameterKey.Thickness.Name;
 
     /// <summary>Area key (m² in the result, µm² on display).</summary>
-    public const string AreaKey = "area_m2";
+    public static string AreaKey => ParameterKey.Area.Name;
 
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 

@@ -31,7 +31,7 @@ public static class ThicknessBesideCet
         foreach (string note in cv.Notes) lines.Add("  " + note);
         foreach (var r in results)
         {
-            if (r.Find("thickness_nm") is not { } t || r.Status == FitStatus.Failed) continue;
+            if (r.Find(ParameterKey.Thickness.Name) is not { } t || r.Status == FitStatus.Failed) continue;
             double diff = cv.CapacitanceEquivalentThicknessNm - t.Value;
             lines.Add(string.Create(c, $"{r.SourcePath}: t_ox (tunnelling) {t.Value:0.###} nm | CET (C-V) {cv.CapacitanceEquivalentThicknessNm:0.###} nm | CET - t_ox = {diff:0.###} nm"));
         }

@@ -15,7 +15,7 @@ namespace JunctionFit.Storage;
 public static class ResultIdentity
 {
     /// <summary>First line of the canonical options text; bump it when the meaning of a line changes.</summary>
-    public const string OptionsFormat = "junctionfit-fit-options/2";
+    public const string OptionsFormat = "junctionfit-fit-options/3";
 
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
@@ -52,9 +52,14 @@ public static class ResultIdentity
     {
         ArgumentNullException.ThrowIfNull(options);
         var lines = new SortedDictionary<string, string>(StringComparer.Ordinal);
-        foreach (var (key, value) in options.FixedValues) lines.Add("fixed." + key, Number(value));
-        foreach (string key in options.FreedKeys) lines.Add("freed." + key, "true");
-        foreach (var (key, value) in options.StartValues) lines.Add("start." + key, Number(value));
+        // Parameter values are written in the unit their key names (fixed.thickness_nm=1.6), converted from SI once here.
+        foreach (var (key, value) in options.FixedValues) lines.Add("fixed." + key.Name, Number(key.ToDisplay(value)));
+        foreach (var key in options.FreedKeys) lines.Add("freed." + key.Name, "true");
+        foreach (var (key, value) in options.StartValues) lines.Add("start." + key.Name, Number(key.ToDisplay(value)));
+        foreach (var (key, b) in options.Bounds)
+        {
+            lines.Add("bound." + key.Name, Number(key.ToDisplay(b.LowerSi)) + ":" + Number(key.ToDisplay(b.UpperSi)));
+        }
         lines.Add("relative_noise", Number(options.RelativeNoise));
         lines.Add("noise_floor_A", Number(options.NoiseFloorA));
         lines.Add("compliance_A", Number(options.ComplianceA));

@@ -17,6 +17,7 @@ namespace JunctionFit.Tests.Cli;
 /// each worker (by the name in <c>fitted_by</c>) did at least a fifth of the lot. On the PostgreSQL test server and on
 /// SQLite. The 3000-file version of this run is tests/JunctionFit.Benchmarks/run-shared-workers.sh.
 /// </summary>
+[Collection(MachineBoundCollection.Name)]
 public partial class BatchSharedWorkTests
 {
     private const int Files = 1500;

@@ -98,7 +98,7 @@ public class OptionSetTests
                 Assert.True(doc.RootElement.GetProperty("n").GetInt32() <= DiesPerLot, line);
             }
         }
-        var (bad, _, badErr) = CliRunner.Run("drift", "--db", db, "--reference", "L1", "--option-set", "7");
+        var (bad, _, badErr) = CliRunner.Run("drift", "--db", db, "--reference", "L1", "--out", dir.File("drift-bad"), "--option-set", "7");
         Assert.Equal(2, bad);
         Assert.Contains("--option-set: '7' names none of the 2 option set(s) found", badErr, StringComparison.Ordinal);
     }

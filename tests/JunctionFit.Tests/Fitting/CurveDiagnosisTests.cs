@@ -20,7 +20,7 @@ public class CurveDiagnosisTests
     private static readonly JunctionCurrentModel Model = new(SimmonsRectangularModel.Instance);
 
     private static FitOptions AreaFixed(double areaUm2) =>
-        FitOptions.Default with { FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", areaUm2 * 1e-12) };
+        FitOptions.Default with { FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, areaUm2 * 1e-12) };
 
     private static double[] Grid(double from, double to, int n) => Enumerable.Range(0, n).Select(k => Math.Round(from + (to - from) * k / (n - 1), 12)).ToArray();
 
@@ -101,7 +101,7 @@ public class CurveDiagnosisTests
     public void Fit_MassRatioFreeWithBarrierAndThickness_NamesTheTradeOff()
     {
         var c = JunctionFitterTests.Simulate(1.56, 1.4, 100, 0.01, seed: 4);
-        var options = AreaFixed(100) with { FreedKeys = ["mass_ratio"] };
+        var options = AreaFixed(100) with { FreedKeys = [ParameterKey.MassRatio] };
         var r = JunctionFitter.Fit(c, Model, options);
         Assert.Contains("trade-off", r.Diagnoses);
         Assert.Contains(r.Warnings, w => w.StartsWith("trade-off", StringComparison.Ordinal) && w.Contains("d·√(m*·φ)", StringComparison.Ordinal));

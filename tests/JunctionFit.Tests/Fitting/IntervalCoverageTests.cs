@@ -29,7 +29,7 @@ public class IntervalCoverageTests(ITestOutputHelper output)
         double vMax = 0.6 * phiEv;
         double[] truth = [phiEv * PhysicalConstants.JoulePerElectronVolt, dNm * 1e-9, 1.0, areaUm2 * 1e-12];
         var options = areaKnown
-            ? FitOptions.Default with { FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", areaUm2 * 1e-12) }
+            ? FitOptions.Default with { FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, areaUm2 * 1e-12) }
             : FitOptions.Default;
         string[] keys = areaKnown ? ["barrier_height_eV", "thickness_nm"] : ["barrier_height_eV", "thickness_nm", "area_m2"];
         double[] truthDisplay = [phiEv, dNm, areaUm2 * 1e-12];

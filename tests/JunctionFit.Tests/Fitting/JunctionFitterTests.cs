@@ -25,7 +25,7 @@ public class JunctionFitterTests
     {
         // Truth from the acceptance case: φ = 2.1 eV, d = 1.6 nm, area 100 µm², 1 % noise.
         var curve = Simulate(2.1, 1.6, 100, 0.01, seed: 7);
-        var options = FitOptions.Default with { FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", 100e-12) };
+        var options = FitOptions.Default with { FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, 100e-12) };
         var result = JunctionFitter.Fit(curve, Model, options);
 
         Assert.Equal(FitStatus.Ok, result.Status);
@@ -77,7 +77,7 @@ public class JunctionFitterTests
         var clean = Simulate(2.2, 1.8, 100, 0.0, seed: 3);
         var leaky = clean.CurrentA.Select((c, k) => c + clean.VoltageV[k] / 1e6).ToImmutableArray();
         var noisy = leaky.Select((c, k) => c * (1 + 0.002 * Math.Sin(12.9898 * k))).ToImmutableArray();
-        var options = FitOptions.Default with { FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", 100e-12) };
+        var options = FitOptions.Default with { FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, 100e-12) };
         var result = JunctionFitter.Fit(new IvCurve("leaky.csv", clean.VoltageV, noisy), Model, options);
 
         Assert.Equal(FitStatus.PoorFit, result.Status);
@@ -129,7 +129,7 @@ public class IdentifiabilityWarningTests
     public void Fit_AreaKnownWideSweep_HasNoIdentifiabilityWarning()
     {
         var curve = JunctionFitterTests.Simulate(2.0, 1.5, 100, 0.01, seed: 32, fromV: -1.2, toV: 1.2);
-        var options = FitOptions.Default with { FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", 100e-12) };
+        var options = FitOptions.Default with { FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, 100e-12) };
         var result = JunctionFitter.Fit(curve, Model, options);
         Assert.DoesNotContain(result.Warnings, w => w.StartsWith("not identifiable", StringComparison.Ordinal));
     }

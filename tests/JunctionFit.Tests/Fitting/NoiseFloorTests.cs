@@ -20,7 +20,7 @@ public class NoiseFloorTests(ITestOutputHelper output)
     private static readonly JunctionCurrentModel Model = new(SimmonsRectangularModel.Instance);
 
     private static FitOptions AreaFixed(double areaUm2) =>
-        FitOptions.Default with { FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", areaUm2 * 1e-12) };
+        FitOptions.Default with { FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, areaUm2 * 1e-12) };
 
     /// <summary>A sweep stepped in floating point (x += step), as a script or an instrument firmware produces it.</summary>
     internal static IvCurve FloatSteppedSweep(double phiEv, double dNm, double areaUm2, double vMax, int points, double relNoise,

@@ -26,7 +26,7 @@ internal static class ProfileLikelihoodAndBootstrapCases
     }
 
     public static FitOptions Options(bool areaKnown) => areaKnown
-        ? FitOptions.Default with { FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", AreaM2) }
+        ? FitOptions.Default with { FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, AreaM2) }
         : FitOptions.Default;
 
     /// <summary>Keys of the free parameters and their true values in display units.</summary>

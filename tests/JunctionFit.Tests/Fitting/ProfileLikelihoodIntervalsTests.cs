@@ -18,7 +18,7 @@ public class ProfileLikelihoodIntervalsTests(ITestOutputHelper output)
     private static double RefitRss(IvCurve curve, FitOptions options, string key, double displayValue)
     {
         var def = Model.Parameters[Model.IndexOf(key)];
-        var refit = JunctionFitter.Fit(curve, Model, options with { FixedValues = options.FixedValues.SetItem(key, def.FromDisplay(displayValue)) });
+        var refit = JunctionFitter.Fit(curve, Model, options with { FixedValues = options.FixedValues.SetItem(def.Id, def.FromDisplay(displayValue)) });
         return refit.Quality!.ResidualSumOfSquares;
     }
 

@@ -14,7 +14,7 @@ public class RoundingBiasTests
 
     private static readonly FitOptions AreaKnown = FitOptions.Default with
     {
-        FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", 100e-12),
+        FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, 100e-12),
     };
 
     [Theory]

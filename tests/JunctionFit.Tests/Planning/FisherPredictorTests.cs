@@ -77,7 +77,7 @@ public class FisherPredictorTests(ITestOutputHelper output)
         {
             RelativeNoise = 0.01,
             DirectionFits = false,
-            FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", 100e-12),
+            FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, 100e-12),
         };
         const int replicates = 100;
         var phi = new double[replicates];

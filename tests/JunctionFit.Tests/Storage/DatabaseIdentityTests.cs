@@ -3,6 +3,7 @@ using System.Text;
 using JunctionFit.Fitting;
 using JunctionFit.Storage;
 using Xunit;
+using JunctionFit.Physics;
 
 namespace JunctionFit.Tests.Storage;
 
@@ -32,13 +33,13 @@ public sealed class DatabaseIdentityTests
     {
         var a = FitOptions.Default with
         {
-            FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", 1e-10).Add("mass_ratio", 0.4),
-            StartValues = ImmutableDictionary<string, double>.Empty.Add("thickness_nm", 1.5),
+            FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, 1e-10).Add(ParameterKey.MassRatio, 0.4),
+            StartValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Thickness, 1.5),
         };
         var b = FitOptions.Default with
         {
-            FixedValues = ImmutableDictionary<string, double>.Empty.Add("mass_ratio", 0.4).Add("area_m2", 1e-10),
-            StartValues = ImmutableDictionary<string, double>.Empty.Add("thickness_nm", 1.5),
+            FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.MassRatio, 0.4).Add(ParameterKey.Area, 1e-10),
+            StartValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Thickness, 1.5),
         };
         Assert.Equal(ResultIdentity.CanonicalOptions(a), ResultIdentity.CanonicalOptions(b));
         Assert.StartsWith(ResultIdentity.OptionsFormat + "\n", ResultIdentity.CanonicalOptions(a), StringComparison.Ordinal);
@@ -51,9 +52,9 @@ public sealed class DatabaseIdentityTests
         string baseline = ResultIdentity.OptionsHash(ResultIdentity.CanonicalOptions(FitOptions.Default));
         FitOptions[] changed =
         [
-            FitOptions.Default with { FixedValues = ImmutableDictionary<string, double>.Empty.Add("area_m2", 1e-10) },
-            FitOptions.Default with { FreedKeys = ["mass_ratio"] },
-            FitOptions.Default with { StartValues = ImmutableDictionary<string, double>.Empty.Add("barrier_height_eV", 2.0) },
+            FitOptions.Default with { FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, 1e-10) },
+            FitOptions.Default with { FreedKeys = [ParameterKey.MassRatio] },
+            FitOptions.Default with { StartValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.BarrierHeight, 2.0) },
             FitOptions.Default with { RelativeNoise = 0.01 },
             FitOptions.Default with { NoiseFloorA = 1e-13 },
             FitOptions.Default with { ComplianceA = 1e-3 },
@@ -83,7 +84,7 @@ public sealed class DatabaseIdentityTests
     {
         // When FitOptions or the solver options gain a property, decide whether it changes a fit's outcome; if it does,
         // write it in ResultIdentity.CanonicalOptions (stored results then count as stale), then list it here.
-        string[] fit = ["BiasWindowHighV", "BiasWindowLowV", "ComplianceA", "DirectionFits", "FixAreaFromMetadata", "FixedValues", "FreedKeys",
+        string[] fit = ["BiasWindowHighV", "BiasWindowLowV", "Bounds", "ComplianceA", "DirectionFits", "FixAreaFromMetadata", "FixedValues", "FreedKeys",
             "KeepSettling", "MisfitTolerance", "NoiseFloorA", "RelativeNoise", "Solver", "StartValues", "Starts", "SweepDirection"];
         string[] solver = ["GradientTolerance", "InitialStepFactor", "MaxFunctionEvaluations", "MaxIterations", "RelativeReductionTolerance", "StepTolerance"];
         Assert.Equal(fit, InstanceProperties(typeof(FitOptions)));
