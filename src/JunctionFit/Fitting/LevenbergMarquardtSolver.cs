@@ -185,7 +185,7 @@ public static class LevenbergMarquardtSolver
                 if (iterations >= _options.MaxIterations)
                 {
                     return Finish(fnorm, iterations, SolverTermination.IterationLimit,
-                        Format("Stopped after the iteration limit of {0} before the convergence tests were met.", _options.MaxIterations), jacobianCurrent: false);
+                        Format("Gave up at the iteration limit ({0} iterations): the misfit was still falling or the steps were still moving the parameters.", _options.MaxIterations), jacobianCurrent: false);
                 }
 
                 // Jacobian at x, copied column-major for the QR.
@@ -264,7 +264,7 @@ public static class LevenbergMarquardtSolver
                 if (gnorm <= gtol)
                 {
                     return Finish(fnorm, iterations, SolverTermination.Gradient,
-                        Format("The residual vector is orthogonal to the Jacobian columns to within {0:G3} (gradient test).", gtol), jacobianCurrent: true);
+                        Format("Flat ground: no parameter direction changes the misfit any more (cosine between misfit and slopes at most {0:G3}).", gtol), jacobianCurrent: true);
                 }
 
                 for (int j = 0; j < n; j++)
@@ -389,44 +389,44 @@ public static class LevenbergMarquardtSolver
                     if (reduction && step)
                     {
                         return Finish(fnorm, iterations, SolverTermination.ReductionAndStep,
-                            Format("Both the relative reduction of the sum of squares (≤ {0:G3}) and the relative step (≤ {1:G3}) tests are met.", ftol, xtol), current);
+                            Format("Settled: the last step lowered the misfit by at most {0:G3} of itself and moved the parameters by at most {1:G3} of their size.", ftol, xtol), current);
                     }
 
                     if (reduction)
                     {
                         return Finish(fnorm, iterations, SolverTermination.RelativeReduction,
-                            Format("The actual and predicted relative reductions of the sum of squares are at most {0:G3}.", ftol), current);
+                            Format("Settled on the misfit: neither the last step nor the model of the next one lowers it by more than {0:G3} of itself.", ftol), current);
                     }
 
                     if (step)
                     {
                         return Finish(fnorm, iterations, SolverTermination.StepSize,
-                            Format("The relative change of the scaled parameters is at most {0:G3}.", xtol), current);
+                            Format("Settled on the parameters: the last step moved them by at most {0:G3} of their size.", xtol), current);
                     }
 
                     // Limits and tests that mean the tolerances are below machine precision.
                     if (_evaluations >= _maxEvaluations)
                     {
                         return Finish(fnorm, iterations, SolverTermination.EvaluationLimit,
-                            Format("Stopped after the limit of {0} residual evaluations before the convergence tests were met.", _maxEvaluations), current);
+                            Format("Gave up after {0} evaluations of the model without settling.", _maxEvaluations), current);
                     }
 
                     if (Math.Abs(actual) <= Eps && predicted <= Eps && 0.5 * ratio <= 1.0)
                     {
                         return Finish(fnorm, iterations, SolverTermination.NoFurtherProgress,
-                            "No further reduction of the sum of squares is possible in double precision (the reduction tolerance is too small).", current);
+                            "The misfit is as low as double precision can tell apart; asking for a smaller change of it cannot be met.", current);
                     }
 
                     if (delta <= Eps * xnorm)
                     {
                         return Finish(fnorm, iterations, SolverTermination.NoFurtherProgress,
-                            "No further improvement of the parameters is possible in double precision (the step tolerance is too small).", current);
+                            "The steps are below what double precision can resolve in the parameters; asking for smaller steps cannot be met.", current);
                     }
 
                     if (gnorm <= Eps)
                     {
                         return Finish(fnorm, iterations, SolverTermination.NoFurtherProgress,
-                            "The residuals are orthogonal to the Jacobian columns to machine precision (the gradient tolerance is too small).", current);
+                            "No parameter direction changes the misfit at double precision; asking for a flatter slope cannot be met.", current);
                     }
                 }
             }

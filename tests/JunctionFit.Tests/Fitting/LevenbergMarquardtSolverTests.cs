@@ -146,7 +146,7 @@ public sealed class LevenbergMarquardtSolverTests
         Assert.Equal(SolverTermination.IterationLimit, s.Termination);
         Assert.False(s.Converged);
         Assert.Equal(2, s.Iterations);
-        Assert.Contains("iteration limit", s.Reason, StringComparison.Ordinal);
+        Assert.Contains("iteration limit", s.Reason, StringComparison.Ordinal); // the tool's own wording of this stop
         Assert.All(s.Parameters, v => Assert.True(double.IsFinite(v)));
     }
 
