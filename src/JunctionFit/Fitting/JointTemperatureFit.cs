@@ -112,7 +112,7 @@ public static class JointTemperatureFit
             if (z < JunctionFitter.RunsTestCriticalZ && status == FitStatus.Ok)
             {
                 status = FitStatus.PoorFit;
-                warnings.Add($"the shared barrier does not describe the curve at {temperatures[i]:0.#} K (runs test z = {z:0.0}): the temperature dependence is not that of direct tunnelling with one barrier");
+                warnings.Add($"the shared barrier does not describe the curve at {temperatures[i]:0.#} K ({JunctionFitter.RunsText(z)}): the temperature dependence is not that of direct tunnelling with one barrier");
             }
             offset += len;
         }

@@ -461,7 +461,7 @@ public static class JunctionFitter
                 if (z < RunsTestCriticalZ)
                 {
                     warnings.Add($"small systematic misfit: {small * 100:0.#} % RMS beyond the noise, within the tolerance of " +
-                                 $"{options.MisfitTolerance * 100:0.#} %; the residual signs form fewer runs than noise would (runs test z = {z:0.0})");
+                                 $"{options.MisfitTolerance * 100:0.#} %; the residual signs form fewer runs than noise would ({RunsText(z)})");
                 }
             }
             if (noiseKnown && dof > 0)
@@ -639,6 +639,10 @@ public static class JunctionFitter
         }
         return "widen the bias range, or fix one of them from an independent measurement (ellipsometry thickness)";
     }
+
+    /// <summary>The runs test in words: its z value, or, when z is infinite, what that means.</summary>
+    internal static string RunsText(double z) =>
+        double.IsFinite(z) ? $"runs test z = {z:0.0}" : "the residuals have one sign throughout (a single run)";
 
     /// <summary>
     /// Wald–Wolfowitz runs test on the signs of the residuals ordered by voltage:
