@@ -33,7 +33,7 @@ public static class FitJsonFormatter
         w.WriteString("model", result.Model);
         w.WriteString("status", ResultSchema.StatusText(result.Status));
         if (result.Error is null) w.WriteNull("error"); else w.WriteString("error", result.Error);
-        WriteStringOrNull(w, "status_reason", result.StatusReason);
+        w.WriteStringOrNull("status_reason", result.StatusReason);
         w.WriteStartArray("warnings");
         foreach (var warning in result.Warnings) w.WriteStringValue(warning);
         w.WriteEndArray();
@@ -49,19 +49,19 @@ public static class FitJsonFormatter
             w.WriteNumber("points_used", q.PointsUsed);
             w.WriteNumber("points_masked", q.PointsMasked);
             w.WriteNumber("iterations", q.Iterations);
-            WriteNumberOrNull(w, "rss", q.ResidualSumOfSquares);
-            WriteNumberOrNull(w, "reduced_chi2", q.ReducedChiSquare);
+            w.WriteNumberOrNull("rss", q.ResidualSumOfSquares);
+            w.WriteNumberOrNull("reduced_chi2", q.ReducedChiSquare);
             w.WriteBoolean("converged", q.Converged);
             w.WriteString("stop_reason", q.StopReason);
             w.WriteString("covariance_scaling", q.CovarianceScaling);
             w.WriteString("interval_method", q.IntervalMethod);
             w.WriteNumber("noise_floor_A", q.NoiseFloorA);
-            WriteStringOrNull(w, "noise_floor", q.NoiseFloorDescription);
+            w.WriteStringOrNull("noise_floor", q.NoiseFloorDescription);
             w.WriteNumber("points_down_weighted", q.PointsDownWeighted);
-            WriteNumberOrNull(w, "relative_noise", q.RelativeNoise);
-            WriteNumberOrNull(w, "log_residual_rms", q.LogResidualRms);
-            WriteNumberOrNull(w, "systematic_misfit", q.SystematicMisfit);
-            WriteNumberOrNull(w, "misfit_tolerance", q.MisfitTolerance);
+            w.WriteNumberOrNull("relative_noise", q.RelativeNoise);
+            w.WriteNumberOrNull("log_residual_rms", q.LogResidualRms);
+            w.WriteNumberOrNull("systematic_misfit", q.SystematicMisfit);
+            w.WriteNumberOrNull("misfit_tolerance", q.MisfitTolerance);
         }
         else
         {
@@ -85,7 +85,7 @@ public static class FitJsonFormatter
             for (int a = 0; a < nk; a++)
             {
                 w.WriteStartArray();
-                for (int b = 0; b < nk; b++) WriteNumberValueOrNull(w, Math.Round(result.CorrelationRowMajor[a * nk + b], 6));
+                for (int b = 0; b < nk; b++) w.WriteNumberValueOrNull(Math.Round(result.CorrelationRowMajor[a * nk + b], 6));
                 w.WriteEndArray();
             }
         }
@@ -100,16 +100,16 @@ public static class FitJsonFormatter
             w.WriteStartObject("hysteresis");
             w.WriteNumber("rising_points", h.RisingPoints);
             w.WriteNumber("falling_points", h.FallingPoints);
-            WriteNumberOrNull(w, "log_current_rms", h.LogCurrentRms);
+            w.WriteNumberOrNull("log_current_rms", h.LogCurrentRms);
             w.WriteBoolean("significant", h.Significant);
             w.WriteStartObject("rising_minus_falling");
             foreach (var d in h.Differences)
             {
                 w.WriteStartObject(d.Key);
-                WriteNumberOrNull(w, "rising", d.Rising);
-                WriteNumberOrNull(w, "falling", d.Falling);
-                WriteNumberOrNull(w, "difference", d.Difference);
-                WriteNumberOrNull(w, "stderr", d.StandardError);
+                w.WriteNumberOrNull("rising", d.Rising);
+                w.WriteNumberOrNull("falling", d.Falling);
+                w.WriteNumberOrNull("difference", d.Difference);
+                w.WriteNumberOrNull("stderr", d.StandardError);
                 if (d.Interval95 is (double lo, double hi))
                 {
                     w.WriteStartArray("ci95");
@@ -130,9 +130,9 @@ public static class FitJsonFormatter
         {
             w.WriteNull("hysteresis");
         }
-        WriteStringOrNull(w, "model_validity", result.ModelValidity);
-        WriteNumberOrNull(w, "transition_voltage_V", result.TransitionVoltageV);
-        WriteNumberOrNull(w, "transition_voltage_negative_V", result.TransitionVoltageNegativeV);
+        w.WriteStringOrNull("model_validity", result.ModelValidity);
+        w.WriteNumberOrNull("transition_voltage_V", result.TransitionVoltageV);
+        w.WriteNumberOrNull("transition_voltage_negative_V", result.TransitionVoltageNegativeV);
         if (result.ModelComparison.Length > 0)
         {
             w.WriteStartArray("model_selection");
@@ -143,8 +143,8 @@ public static class FitJsonFormatter
                 w.WriteString("status", ResultSchema.StatusText(row.Status));
                 w.WriteNumber("free_parameters", row.FreeParameters);
                 w.WriteNumber("points_used", row.PointsUsed);
-                WriteNumberOrNull(w, "rss", row.ResidualSumOfSquares);
-                WriteNumberOrNull(w, "aicc", row.Aicc);
+                w.WriteNumberOrNull("rss", row.ResidualSumOfSquares);
+                w.WriteNumberOrNull("aicc", row.Aicc);
                 w.WriteBoolean("chosen", row.Chosen);
                 w.WriteEndObject();
             }
@@ -160,8 +160,8 @@ public static class FitJsonFormatter
             w.WriteNumber(ParameterKey.Area.Name, cv.AreaM2);
             w.WriteBoolean("saturated", cv.Saturated);
             if (result.Find(ParameterKey.Thickness.Name) is { } tox) w.WriteNumber("cet_minus_thickness_nm", cv.CapacitanceEquivalentThicknessNm - tox.Value);
-            WriteNumberOrNull(w, "doping_cm3", cv.DopingM3 / 1e6);
-            WriteNumberOrNull(w, ParameterKey.FlatBandVoltage.Name, cv.FlatBandVoltageV);
+            w.WriteNumberOrNull("doping_cm3", cv.DopingM3 / 1e6);
+            w.WriteNumberOrNull(ParameterKey.FlatBandVoltage.Name, cv.FlatBandVoltageV);
             w.WriteEndObject();
         }
         ResultTableWriter.WriteJsonFields(w, ResultSchema.PlacementColumns, ResultSchema.Placement(result));
@@ -172,8 +172,8 @@ public static class FitJsonFormatter
     private static void WriteParameter(Utf8JsonWriter w, ParameterEstimate p)
     {
         w.WriteStartObject(p.Key);
-        WriteNumberOrNull(w, "value", p.Value);
-        WriteNumberOrNull(w, "stderr", p.StandardError);
+        w.WriteNumberOrNull("value", p.Value);
+        w.WriteNumberOrNull("stderr", p.StandardError);
         if (p.Bound is { } bound)
         {
             // One-sided: [limit, null] for "at least", [null, limit] for "at most".
@@ -206,18 +206,6 @@ public static class FitJsonFormatter
         w.WriteEndObject();
     }
 
-    private static void WriteNumberOrNull(Utf8JsonWriter w, string name, double? value)
-    {
-        if (value is double v && double.IsFinite(v)) w.WriteNumber(name, v); else w.WriteNull(name);
-    }
 
-    private static void WriteNumberValueOrNull(Utf8JsonWriter w, double value)
-    {
-        if (double.IsFinite(value)) w.WriteNumberValue(value); else w.WriteNullValue();
-    }
 
-    private static void WriteStringOrNull(Utf8JsonWriter w, string name, string? value)
-    {
-        if (value is null) w.WriteNull(name); else w.WriteString(name, value);
-    }
 }

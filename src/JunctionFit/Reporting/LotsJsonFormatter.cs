@@ -31,17 +31,17 @@ public static class LotsJsonFormatter
         {
             w.WriteString("lot", row.Lot);
             w.WriteString("parameter", row.Key);
-            Number(w, "shift", row.Shift);
+            w.WriteNumberOrNull("shift", row.Shift);
             Pair(w, "ci95", row.Lower95, row.Upper95);
-            Number(w, "p_value", row.PValueHolm);
+            w.WriteNumberOrNull("p_value", row.PValueHolm);
             w.WriteBoolean("flagged", row.Flagged);
             w.WriteNumber("n", row.N);
-            Number(w, "p_value_uncorrected", row.PValue);
+            w.WriteNumberOrNull("p_value_uncorrected", row.PValue);
             w.WriteNumber("n_reference", row.ReferenceN);
-            Number(w, "lot_mean", row.LotMean);
-            Number(w, "reference_mean", row.ReferenceMean);
-            Number(w, "df", row.DegreesOfFreedom);
-            Number(w, "threshold", row.Threshold);
+            w.WriteNumberOrNull("lot_mean", row.LotMean);
+            w.WriteNumberOrNull("reference_mean", row.ReferenceMean);
+            w.WriteNumberOrNull("df", row.DegreesOfFreedom);
+            w.WriteNumberOrNull("threshold", row.Threshold);
             if (row.Reason is null) w.WriteNull("reason"); else w.WriteString("reason", row.Reason);
         });
     }
@@ -56,12 +56,12 @@ public static class LotsJsonFormatter
         var a = comparison.Agreement;
         return Write(w =>
         {
-            Number(w, "bias_nm", a?.BiasNm);
+            w.WriteNumberOrNull("bias_nm", a?.BiasNm);
             Pair(w, "ci95", a?.BiasLower95Nm, a?.BiasUpper95Nm);
             Pair(w, "limits_of_agreement", a?.LowerLimitNm, a?.UpperLimitNm);
             w.WriteNumber("n", comparison.Pairs.Length);
             w.WriteString("level", comparison.Level == ThicknessMatchLevel.Site ? "site" : "wafer");
-            Number(w, "sd_nm", a?.DifferenceSdNm);
+            w.WriteNumberOrNull("sd_nm", a?.DifferenceSdNm);
             w.WriteStartObject("limits_of_agreement_ci95");
             Pair(w, "lower", a?.LowerLimitLower95Nm, a?.LowerLimitUpper95Nm);
             Pair(w, "upper", a?.UpperLimitLower95Nm, a?.UpperLimitUpper95Nm);
@@ -72,10 +72,10 @@ public static class LotsJsonFormatter
             {
                 w.WriteStartObject();
                 w.WriteString("file", u.File);
-                Text(w, "lot", u.Lot);
-                Text(w, "wafer", u.Wafer);
-                Integer(w, "die_x", u.DieX);
-                Integer(w, "die_y", u.DieY);
+                w.WriteStringOrNull("lot", u.Lot);
+                w.WriteStringOrNull("wafer", u.Wafer);
+                w.WriteIntegerOrNull("die_x", u.DieX);
+                w.WriteIntegerOrNull("die_y", u.DieY);
                 w.WriteString("reason", u.Reason);
                 w.WriteEndObject();
             }
@@ -87,8 +87,8 @@ public static class LotsJsonFormatter
                 w.WriteNumber("line", u.Row.SourceLine);
                 w.WriteString("lot", u.Row.Lot);
                 w.WriteString("wafer", u.Row.Wafer);
-                Integer(w, "die_x", u.Row.DieX);
-                Integer(w, "die_y", u.Row.DieY);
+                w.WriteIntegerOrNull("die_x", u.Row.DieX);
+                w.WriteIntegerOrNull("die_y", u.Row.DieY);
                 w.WriteNumber(ParameterKey.Thickness.Name, u.Row.ThicknessNm);
                 w.WriteString("reason", u.Reason);
                 w.WriteEndObject();
@@ -109,23 +109,8 @@ public static class LotsJsonFormatter
         return Encoding.UTF8.GetString(buffer.WrittenSpan);
     }
 
-    private static void Number(Utf8JsonWriter w, string name, double? value)
-    {
-        if (value is double v && double.IsFinite(v)) w.WriteNumber(name, v);
-        else w.WriteNull(name);
-    }
 
-    private static void Integer(Utf8JsonWriter w, string name, int? value)
-    {
-        if (value is int v) w.WriteNumber(name, v);
-        else w.WriteNull(name);
-    }
 
-    private static void Text(Utf8JsonWriter w, string name, string? value)
-    {
-        if (value is null) w.WriteNull(name);
-        else w.WriteString(name, value);
-    }
 
     private static void Pair(Utf8JsonWriter w, string name, double? lo, double? hi)
     {

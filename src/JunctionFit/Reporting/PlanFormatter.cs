@@ -79,10 +79,7 @@ public static class PlanFormatter
                 }
                 w.WriteEndArray();
                 w.WriteEndObject();
-                w.WriteBoolean("identifiable", p.IsIdentifiable);
-                w.WriteStartArray("not_identifiable_reasons");
-                foreach (string r in p.Reasons) w.WriteStringValue(r);
-                w.WriteEndArray();
+                WriteIdentifiability(w, p.IsIdentifiable, p.Reasons);
                 w.WriteNumber("condition_number", double.IsFinite(p.ConditionNumber) ? p.ConditionNumber : -1);
             }
             else
@@ -122,12 +119,12 @@ public static class PlanFormatter
             }
 
             w.WriteStartObject("limits");
-            WriteNumberOrNull(w, "max_bias_V", request.MaxBiasV);
-            WriteNumberOrNull(w, "max_field_MV_per_cm", request.MaxFieldVPerM / VoltPerMeterPerMvPerCm);
-            WriteNumberOrNull(w, "field_thickness_nm", plan.FieldThicknessNm is double ftn ? Tidy(ftn) : null);
-            WriteNumberOrNull(w, "bias_limit_V", plan.BiasLimitV);
-            WriteNumberOrNull(w, "compliance_A", setup.ComplianceA);
-            WriteNumberOrNull(w, "compliance_reached_at_V", plan.ComplianceBiasV);
+            w.WriteNumberOrNull("max_bias_V", request.MaxBiasV);
+            w.WriteNumberOrNull("max_field_MV_per_cm", request.MaxFieldVPerM / VoltPerMeterPerMvPerCm);
+            w.WriteNumberOrNull("field_thickness_nm", plan.FieldThicknessNm is double ftn ? Tidy(ftn) : null);
+            w.WriteNumberOrNull("bias_limit_V", plan.BiasLimitV);
+            w.WriteNumberOrNull("compliance_A", setup.ComplianceA);
+            w.WriteNumberOrNull("compliance_reached_at_V", plan.ComplianceBiasV);
             w.WriteNumber("max_points", request.MaxPoints);
             w.WriteEndObject();
             w.WriteStartArray("targets");
@@ -240,8 +237,8 @@ public static class PlanFormatter
     {
         w.WriteStartObject(q.Key);
         w.WriteNumber("value", Tidy(q.Value));
-        WriteNumberOrNull(w, "stderr", q.StandardError);
-        WriteNumberOrNull(w, "ci95_halfwidth", q.HalfWidth95);
+        w.WriteNumberOrNull("stderr", q.StandardError);
+        w.WriteNumberOrNull("ci95_halfwidth", q.HalfWidth95);
         if (q.Lower95 is double lo && q.Upper95 is double hi)
         {
             w.WriteStartArray("ci95");
@@ -253,7 +250,7 @@ public static class PlanFormatter
         {
             w.WriteNull("ci95");
         }
-        WriteNumberOrNull(w, "relative_halfwidth", relative);
+        w.WriteNumberOrNull("relative_halfwidth", relative);
         if (at is not null)
         {
             w.WriteStartObject("at");
@@ -281,15 +278,20 @@ public static class PlanFormatter
             w.WriteEndArray();
         }
         w.WriteEndObject();
-        w.WriteBoolean("identifiable", wc.IsIdentifiable);
-        w.WriteStartArray("not_identifiable_reasons");
-        foreach (string r in wc.Reasons) w.WriteStringValue(r);
-        w.WriteEndArray();
+        WriteIdentifiability(w, wc.IsIdentifiable, wc.Reasons);
         w.WriteNumber("max_current_A", wc.MaxAbsCurrentA);
         w.WriteStartObject("predicted");
         foreach (var q in wc.Parameters) WritePrediction(w, q, wc.RelativeHalfWidth(q.Key), wc.WorstAt[q.Key]);
         w.WriteEndObject();
         w.WriteEndObject();
+    }
+
+    private static void WriteIdentifiability(Utf8JsonWriter w, bool identifiable, IEnumerable<string> reasons)
+    {
+        w.WriteBoolean("identifiable", identifiable);
+        w.WriteStartArray("not_identifiable_reasons");
+        foreach (string r in reasons) w.WriteStringValue(r);
+        w.WriteEndArray();
     }
 
     private static void WriteField(Utf8JsonWriter w, string name, double maxBiasV, double? thicknessNm)
@@ -298,11 +300,6 @@ public static class PlanFormatter
         else w.WriteNull(name);
     }
 
-    private static void WriteNumberOrNull(Utf8JsonWriter w, string name, double? value)
-    {
-        if (value is double v && double.IsFinite(v)) w.WriteNumber(name, v);
-        else w.WriteNull(name);
-    }
 
     /// <summary>Name of a sweep family as the <c>--sweep</c> option spells it.</summary>
     public static string ShapeName(SweepFamily family) => family switch
