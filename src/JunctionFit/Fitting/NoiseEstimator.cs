@@ -77,13 +77,27 @@ public static class NoiseEstimator
         SortKernels.SortWithItems(v, y);
         for (int i = 1; i < m - 1; i++)
         {
-            double v0 = v[i - 1], v1 = v[i], v2 = v[i + 1];
-            if (Math.Sign(v0) != Math.Sign(v2) || v2 <= v0) continue;
-            double wl = (v2 - v1) / (v2 - v0);
-            double wr = 1.0 - wl;
-            double e = y[i] - (wl * y[i - 1] + wr * y[i + 1]);
+            if (!TrySecondDifference(v, y, i, out double e, out double wl, out double wr)) continue;
             scaled[count++] = Math.Abs(e) / Math.Sqrt(1.0 + wl * wl + wr * wr);
         }
         return count;
+    }
+
+    /// <summary>
+    /// The second difference eᵢ = yᵢ − (wₗ yᵢ₋₁ + wᵣ yᵢ₊₁) of the triple centred on i of points sorted by v, with its linear
+    /// interpolation weights; false when the triple straddles zero bias or its outer biases coincide.
+    /// </summary>
+    internal static bool TrySecondDifference(double[] v, double[] y, int i, out double e, out double wl, out double wr)
+    {
+        double v0 = v[i - 1], v1 = v[i], v2 = v[i + 1];
+        if (Math.Sign(v0) != Math.Sign(v2) || v2 <= v0)
+        {
+            e = wl = wr = 0;
+            return false;
+        }
+        wl = (v2 - v1) / (v2 - v0);
+        wr = 1.0 - wl;
+        e = y[i] - (wl * y[i - 1] + wr * y[i + 1]);
+        return true;
     }
 }

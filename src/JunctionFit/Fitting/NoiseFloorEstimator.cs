@@ -172,34 +172,27 @@ public static class NoiseFloorEstimator
         var logI = logAbsCurrent.ToArray();
         SortKernels.SortWithItems(v, logI);
         for (int i = 0; i < m; i++) y[i] = logI[i] - Math.Log(Math.Abs(v[i]));
-        // Per triple: e², and the inverse squared currents (1/I²) of its three points with their variance weights.
-        var e2 = new List<double>();
-        var coefficientSum = new List<double>();   // 1 + wl² + wr² (the r² part of Var e)
-        var inverseCurrentSq = new List<(double Middle, double Left, double Right, double Wl, double Wr)>();
+        // Per triple: e² and Var e = r²·(1 + wₗ² + wᵣ²) + σ²·(1/Iᵢ² + wₗ²/Iᵢ₋₁² + wᵣ²/Iᵢ₊₁²), kept as its two coefficients.
+        var tested = new List<(double E2, double NoiseCoefficient, double FloorCoefficient)>();
         for (int i = 1; i < m - 1; i++)
         {
-            double v0 = v[i - 1], v1 = v[i], v2 = v[i + 1];
-            if (Math.Sign(v0) != Math.Sign(v2) || v2 <= v0) continue;
             double im = Math.Exp(logI[i]);
             if (!(suggestedFloorA / im > relativeNoise)) continue;
-            double wl = (v2 - v1) / (v2 - v0), wr = 1.0 - wl;
-            double e = y[i] - (wl * y[i - 1] + wr * y[i + 1]);
-            e2.Add(e * e);
-            coefficientSum.Add(1.0 + wl * wl + wr * wr);
-            inverseCurrentSq.Add((1.0 / (im * im), Math.Exp(-2 * logI[i - 1]), Math.Exp(-2 * logI[i + 1]), wl, wr));
+            if (!NoiseEstimator.TrySecondDifference(v, y, i, out double e, out double wl, out double wr)) continue;
+            tested.Add((e * e, 1.0 + wl * wl + wr * wr,
+                1.0 / (im * im) + wl * wl * Math.Exp(-2 * logI[i - 1]) + wr * wr * Math.Exp(-2 * logI[i + 1])));
             i += 2; // non-overlapping: the next triple starts after this one's right point
         }
-        triples = e2.Count;
+        triples = tested.Count;
         if (triples < MinimumFloorTriples) return null;
         double r2 = relativeNoise * relativeNoise;
         double LogLikelihood(double floorA)
         {
             double f2 = floorA * floorA, sum = 0;
-            for (int t = 0; t < e2.Count; t++)
+            foreach (var t in tested)
             {
-                var c = inverseCurrentSq[t];
-                double variance = r2 * coefficientSum[t] + f2 * (c.Middle + c.Wl * c.Wl * c.Left + c.Wr * c.Wr * c.Right);
-                sum += Math.Log(variance) + e2[t] / variance;
+                double variance = r2 * t.NoiseCoefficient + f2 * t.FloorCoefficient;
+                sum += Math.Log(variance) + t.E2 / variance;
             }
             return -0.5 * sum;
         }
