@@ -203,7 +203,7 @@ internal static class BatchCommand
                 string? plot = null;
                 if (outcome.PlotPng is { } png)
                 {
-                    plot = Path.Combine(plotDir, FitRun.UniquePlotName(result.SourcePath, plotNames));
+                    plot = Path.Combine(plotDir, FitRun.UniquePlotName(result, plotNames));
                     AtomicFile.WriteAllBytes(plot, png);
                 }
                 plotByIndex[index] = plot;

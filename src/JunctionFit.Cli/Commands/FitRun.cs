@@ -74,7 +74,7 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
             string? plot = null;
             if (plotDir is not null && result.Curve is not null)
             {
-                plot = Path.Combine(plotDir, UniquePlotName(result.SourcePath, usedPlotNames));
+                plot = Path.Combine(plotDir, UniquePlotName(result, usedPlotNames));
                 FitPlotRenderer.WritePng(result, plot);
             }
             if (!json || outDir is not null)
@@ -127,15 +127,26 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
     public int FailedCount { get; private set; }
 
     /// <summary>
-    /// A plot file name from the input path relative to the working directory, folders joined by '_'
-    /// (lot/wafer/die_3_4.csv → lot_wafer_die_3_4.png), made unique within the run.
+    /// A plot file name made unique within the run. When the result knows its lot, wafer and die the name is built from
+    /// them (lot KM-A01, wafer W01, die (3, 4) → KM-A01_W01_die_3_4.png), wherever the file lies; otherwise from the input
+    /// path relative to the working directory, folders joined by '_' (lot/wafer/die_3_4.csv → lot_wafer_die_3_4.png),
+    /// or the file name alone for a file outside it.
     /// </summary>
-    internal static string UniquePlotName(string sourcePath, HashSet<string> used)
+    internal static string UniquePlotName(FitResult result, HashSet<string> used)
     {
-        string relative = Path.GetRelativePath(Directory.GetCurrentDirectory(), sourcePath);
-        if (relative.StartsWith("..", StringComparison.Ordinal) || Path.IsPathRooted(relative)) relative = Path.GetFileName(sourcePath);
-        string withoutExt = Path.ChangeExtension(relative, null) ?? relative;
-        string stem = withoutExt.Replace(Path.DirectorySeparatorChar, '_').Replace(Path.AltDirectorySeparatorChar, '_').TrimStart('.', '_');
+        string stem;
+        if (result.Lot is not null && result.Wafer is not null && result.DieX is int x && result.DieY is int y)
+        {
+            stem = FormattableString.Invariant($"{result.Lot.Trim()}_{result.Wafer.Trim()}_die_{x}_{y}");
+        }
+        else
+        {
+            string sourcePath = result.SourcePath;
+            string relative = Path.GetRelativePath(Directory.GetCurrentDirectory(), sourcePath);
+            if (relative.StartsWith("..", StringComparison.Ordinal) || Path.IsPathRooted(relative)) relative = Path.GetFileName(sourcePath);
+            string withoutExt = Path.ChangeExtension(relative, null) ?? relative;
+            stem = withoutExt.Replace(Path.DirectorySeparatorChar, '_').Replace(Path.AltDirectorySeparatorChar, '_').TrimStart('.', '_');
+        }
         if (stem.Length == 0) stem = "fit";
         foreach (char c in Path.GetInvalidFileNameChars()) stem = stem.Replace(c, '_');
         string name = stem + ".png";
