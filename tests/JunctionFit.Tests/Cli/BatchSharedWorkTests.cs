@@ -81,6 +81,27 @@ public partial class BatchSharedWorkTests
         }
     }
 
+    /// <summary>Rows of the lot stored so far by one worker process (0 while the database cannot be read).</summary>
+    private static int StoredBy(string db, string lot, string fittedBy)
+    {
+        try
+        {
+            using var store = ResultStore.Open(db);
+            return store.Query(lot: lot).Count(r => string.Equals(r.FittedBy, fittedBy, StringComparison.Ordinal));
+        }
+        catch (System.Data.Common.DbException)
+        {
+            return 0;
+        }
+    }
+
+    /// <summary>Sends a signal (STOP, CONT) to a process with the system's kill command and waits for it.</summary>
+    private static void Signal(string name, int pid)
+    {
+        using var kill = Process.Start(new ProcessStartInfo("kill", ["-" + name, pid.ToString(CultureInfo.InvariantCulture)]) { UseShellExecute = false })!;
+        kill.WaitForExit();
+    }
+
     /// <summary>Runs the scenario; <paramref name="activeClaimsOf"/> lists the files a fitted_by prefix holds claimed now.</summary>
     private static void TwoWorkersOneKilled(string db, string lot, TempFolder dir, Func<string, List<string>> activeClaimsOf)
     {
@@ -88,23 +109,38 @@ public partial class BatchSharedWorkTests
         MakeFiles(input, lot);
         List<string> frozen;
         string killedFittedBy;
-        using var b = new Worker(input, dir.File("out-b"), db, "B");
+        Worker b;
         using (var a = new Worker(input, dir.File("out-a"), db, "A"))
         {
             killedFittedBy = $"A@{Environment.MachineName}:{a.Process.Id}";
-            var clock = Stopwatch.StartNew(); // a deadline for the poll and the 1 s before the kill, not a timed assertion
-            var held = new List<string>();
+            var clock = Stopwatch.StartNew(); // a deadline for the polls and the 1 s before the kill, not a timed assertion
+            // B starts once A has stored 5 % of the lot, so that A's share does not hang on how fast each process starts
+            // (B alone can take every file in the seconds A needs to start again).
+            int storedByA = 0;
+            while (!a.Process.HasExited && clock.Elapsed < TimeSpan.FromSeconds(120) && (storedByA = StoredBy(db, lot, killedFittedBy)) < Files / 20)
+            {
+                Thread.Sleep(50);
+            }
+            Assert.True(storedByA >= Files / 20, $"worker A stored {storedByA} of {Files} before B started: " + a.Error);
+            b = new Worker(input, dir.File("out-b"), db, "B");
+            while (clock.Elapsed < TimeSpan.FromSeconds(1)) Thread.Sleep(20);
+            // The kill must find A holding claims. A is stopped (SIGSTOP) while its claims are read, so they cannot change
+            // between the read and the SIGKILL; when it holds none (between two chunks) it goes on (SIGCONT) and is tried again.
+            frozen = [];
             while (!a.Process.HasExited && clock.Elapsed < TimeSpan.FromSeconds(120))
             {
-                try { held = activeClaimsOf(killedFittedBy); } catch (System.Data.Common.DbException) { held = []; }
-                if (held.Count > 0 && clock.Elapsed >= TimeSpan.FromSeconds(1)) break;
-                Thread.Sleep(20);
+                Signal("STOP", a.Process.Id);
+                try { frozen = activeClaimsOf(killedFittedBy); } catch (System.Data.Common.DbException) { frozen = []; }
+                if (frozen.Count > 0) break;
+                Signal("CONT", a.Process.Id);
+                Thread.Sleep(5);
             }
             Assert.False(a.Process.HasExited, "worker A was still running when it was to be killed: " + a.Error);
             a.Process.Kill(entireProcessTree: true); // SIGKILL on Linux
             a.Process.WaitForExit();
-            frozen = activeClaimsOf(killedFittedBy); // what the dead worker held: taken over later
+            Assert.Equal(frozen, activeClaimsOf(killedFittedBy)); // what the dead worker held: taken over later
         }
+        using var bWorker = b;
         Assert.NotEmpty(frozen);
         using var a2 = new Worker(input, dir.File("out-a"), db, "A");
         Assert.True(a2.Finish() == 0, a2.Error);
