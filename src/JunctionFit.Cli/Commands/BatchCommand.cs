@@ -126,7 +126,7 @@ internal static class BatchCommand
         int unreadable = 0, notOk = 0, done = 0;
         var progress = new Progress(context.Error, files.Count);
         using var store = s.Database is null ? null : OpenStore(context, s.Database);
-        string optionsText = ResultIdentity.CanonicalOptions(s.Plan.Options, s.IdentityExtras);
+        string optionsText = FitOptionsText.Canonical(s.Plan.Options, s.IdentityExtras);
         string optionsHash = ResultIdentity.OptionsHash(optionsText);
         var fileKeys = new ResultKey?[files.Count];
         var stored = new Dictionary<ResultKey, StoredResult>();

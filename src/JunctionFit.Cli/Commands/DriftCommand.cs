@@ -1,6 +1,7 @@
 using System.Collections.Immutable;
 using System.CommandLine;
 using System.Globalization;
+using JunctionFit.Import;
 using JunctionFit.Results;
 using JunctionFit.Lots;
 using JunctionFit.Reporting;

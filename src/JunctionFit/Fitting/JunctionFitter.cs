@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using JunctionFit.Import;
+using JunctionFit.Physics.Numerics;
 using JunctionFit.Physics;
 using JunctionFit.Results;
 using MathNet.Numerics.Distributions;

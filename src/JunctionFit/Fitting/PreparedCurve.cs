@@ -1,4 +1,5 @@
 using JunctionFit.Import;
+using JunctionFit.Physics.Numerics;
 
 namespace JunctionFit.Fitting;
 

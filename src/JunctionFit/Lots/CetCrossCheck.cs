@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using System.Globalization;
+using JunctionFit.Import;
 using JunctionFit.Results;
 
 namespace JunctionFit.Lots;
