@@ -333,7 +333,7 @@ internal static class BatchCommand
     /// <summary>A progress bar on a terminal, plain lines every 10 % otherwise (standard error).</summary>
     private sealed class Progress(TextWriter error, int total)
     {
-        private readonly bool _terminal = !Console.IsErrorRedirected && ReferenceEquals(error, Console.Error);
+        private readonly bool _terminal = !Console.IsErrorRedirected && ReferenceEquals(error is OptionWords.Writer w ? w.Inner : error, Console.Error);
         private int _lastDecile = -1;
 
         public void Report(int done)
