@@ -199,6 +199,30 @@ public class EnergyDecayTests
     }
 
     [Fact]
+    public void ThermalFactor_AboveMaximum_HeldContinuously()
+    {
+        // Past its range the factor is held, not left to run into the pole of x / sin x at π: it must join the
+        // formula continuously at the clamp (common practice, no source).
+        double x = ThermalFactor.MaxArgument;
+        Assert.True(GradientAssert.Relative(ThermalFactor.Evaluate(x * (1 - 1e-12)), ThermalFactor.Evaluate(x * (1 + 1e-12))) < 1e-9);
+        Assert.Equal(ThermalFactor.Evaluate(x + 0.1), ThermalFactor.Evaluate(x + 0.2));
+    }
+
+    [Fact]
+    public void CheckValidity_ArgumentBelowOneAtZeroBiasAboveOneAtLargestBias_Warns()
+    {
+        // πckT must stay below 1 over the whole sweep (Simmons 1964). For φ = 1 eV, d = 2.2 nm, mₑ at 300 K the argument from
+        // the exponent above is below 1 at 0 V and above 1 at 0.9 V (φ̄ = φ − eV/2 falls): the warning must come from the largest.
+        double[] p = [1.0 * Q, 2.2e-9, 1.0];
+        double x0 = Math.PI * Kb * 300 * DerivativeAtZero(e => SimmonsExponent(e, 0.0, p[0], p[1], 1.0), p[0]);
+        double x1 = Math.PI * Kb * 300 * DerivativeAtZero(e => SimmonsExponent(e, 0.9, p[0], p[1], 1.0), p[0]);
+        Assert.True(x0 < 1 && x1 > 1, $"{x0} {x1}");
+        var warm = BarrierModelCatalog.Create("simmons", new BarrierModelOptions { TemperatureK = 300 });
+        Assert.Contains(warm.CheckValidity(0.9, p), w => w.Contains("pi*c*kT", StringComparison.Ordinal));
+        Assert.DoesNotContain(warm.CheckValidity(0.1, p), w => w.Contains("pi*c*kT", StringComparison.Ordinal));
+    }
+
+    [Fact]
     public void ThermalArgument_IsPiCkT()
     {
         // x = π c k T (Simmons 1964), k typed in above.
