@@ -13,7 +13,7 @@ namespace JunctionFit.Tests.Fitting;
 /// <para>
 /// Identified and weakly identified: with the area free, some sweeps do not bound φ, d and the area inside their physical
 /// range on a fair share of curves (the profile-likelihood interval is open-ended). There the quadratic approximation behind
-/// the Wald interval cannot hold, and it is not asserted (measured 87–98 %; docs/fitting.md); the profile interval, which
+/// the Wald interval cannot hold, and it is not asserted (measured 89–99 %; docs/fitting.md); the profile interval, which
 /// follows the real shape of S, is. The split is checked, not declared: a point is identified when at most
 /// <see cref="MostOpenEnded"/> of its 1000 curves have an open-ended profile, and each theory asserts which side it is on.
 /// </para>
