@@ -119,7 +119,6 @@ internal sealed record TruthPoint(string Name, double PhiEv, double ThicknessNm,
         ["p2-d1.5-r1-floor-given"] = Baseline with { Name = "p2-d1.5-r1-floor-given", NoiseFloorA = 2e-9, FloorGiven = true },
         ["p2-d1.5-r1-floor-estimated"] = Baseline with { Name = "p2-d1.5-r1-floor-estimated", NoiseFloorA = 2e-9 },
     };
-
 }
 
 /// <summary>An interval method of the coverage tests.</summary>
