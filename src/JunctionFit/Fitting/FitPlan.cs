@@ -68,7 +68,7 @@ public sealed class FitPlan
     public IntervalMethod Intervals { get; init; } = IntervalMethod.Wald;
 
     /// <summary>Bootstrap replicates (for <see cref="IntervalMethod.Bootstrap"/>).</summary>
-    public int BootstrapReplicates { get; init => field = Common.Guard.AtLeast(value, 20); } = 200;
+    public int BootstrapReplicates { get; init => field = Common.Guard.AtLeast(value, BootstrapIntervals.MinimumReplicates); } = BootstrapIntervals.DefaultReplicates;
 
     /// <summary>Bootstrap seed (same seed, same intervals).</summary>
     public int BootstrapSeed { get; init; } = 1;

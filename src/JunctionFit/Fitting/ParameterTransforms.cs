@@ -9,7 +9,8 @@ namespace JunctionFit.Fitting;
 /// <item>Log (lower bound lo, usually 0): θ = lo + eˣ, dθ/dx = θ − lo.</item>
 /// <item>Logistic (lo, hi): θ = lo + (hi − lo)/(1 + e⁻ˣ), dθ/dx = (θ − lo)(hi − θ)/(hi − lo).</item>
 /// </list>
-/// Every interval computed in x and mapped back therefore stays inside (lo, hi).
+/// Every interval computed in x and mapped back therefore stays above lo (and below hi for the logistic transform;
+/// <see cref="WaldInterval"/> clips an end beyond a finite hi of the log transform).
 /// </summary>
 internal static class ParameterTransforms
 {
@@ -36,17 +37,24 @@ internal static class ParameterTransforms
     };
 
     /// <summary>
-    /// Wald interval in the solver variable, mapped back: x̂ ± t·se_x through <see cref="FromSolver"/>, so it stays inside
-    /// the bounds; the standard error by the delta method, |dθ/dx|·se_x. All three in the display unit.
+    /// Wald interval in the solver variable, mapped back: x̂ ± t·se_x through <see cref="FromSolver"/>, so it stays above
+    /// the lower bound; an end beyond a finite upper bound that the transform does not enforce (the log transform of φ ≤ 20 eV,
+    /// d ≤ 100 nm) is clipped to that bound, as the profile-likelihood and bootstrap ends are. The standard error by the delta
+    /// method, |dθ/dx|·se_x. All three in the display unit.
     /// </summary>
     public static (double StandardError, double Lower, double Upper) WaldInterval(ParameterDefinition def, double thetaSi, double seX, double t)
     {
         double x = ToSolver(def, thetaSi);
         double se = Math.Abs(def.ToDisplay(Derivative(def, thetaSi) * seX));
-        double a = def.ToDisplay(FromSolver(def, x - t * seX));
-        double b = def.ToDisplay(FromSolver(def, x + t * seX));
+        double a = ClipToUpper(def, FromSolver(def, x - t * seX));
+        double b = ClipToUpper(def, FromSolver(def, x + t * seX));
+        a = def.ToDisplay(a);
+        b = def.ToDisplay(b);
         return (se, Math.Min(a, b), Math.Max(a, b));
     }
+
+    private static double ClipToUpper(ParameterDefinition def, double thetaSi) =>
+        double.IsFinite(def.UpperSi) && thetaSi > def.UpperSi ? def.UpperSi : thetaSi;
 
     /// <summary>Clamps a start value strictly inside the bounds so that its transform is finite.</summary>
     public static double Inside(ParameterDefinition def, double theta)

@@ -1,7 +1,7 @@
 using JunctionFit.Fitting;
 using JunctionFit.Results;
 using Xunit;
-using static JunctionFit.Tests.Fitting.ProfileLikelihoodAndBootstrapCases;
+using static JunctionFit.Tests.Fitting.TruthPoint;
 
 namespace JunctionFit.Tests.Fitting;
 
@@ -12,8 +12,8 @@ public class BootstrapIntervalsTests
     {
         // Parallel refits write into fixed slots with per-replicate seeds drawn up front: the result must not depend on
         // thread scheduling, so two runs agree bit for bit.
-        var curve = Simulate(51);
-        var options = Options(areaKnown: false);
+        var curve = Baseline.Simulate(51);
+        var options = Baseline.Options(areaKnown: false);
         var fit = JunctionFitter.Fit(curve, Model, options);
         var first = BootstrapIntervals.Compute(curve, Model, options, fit, replicates: 40, seed: 7);
         var second = BootstrapIntervals.Compute(curve, Model, options, fit, replicates: 40, seed: 7);
@@ -30,8 +30,8 @@ public class BootstrapIntervalsTests
     [Fact]
     public void Compute_OtherSeed_GivesOtherIntervals()
     {
-        var curve = Simulate(52);
-        var options = Options(areaKnown: true);
+        var curve = Baseline.Simulate(52);
+        var options = Baseline.Options(areaKnown: true);
         var fit = JunctionFitter.Fit(curve, Model, options);
         var a = BootstrapIntervals.Compute(curve, Model, options, fit, replicates: 40, seed: 1);
         var b = BootstrapIntervals.Compute(curve, Model, options, fit, replicates: 40, seed: 2);
@@ -43,12 +43,12 @@ public class BootstrapIntervalsTests
     {
         // With the area known the estimator is close to normal in (ln φ, ln d), so percentile and Wald intervals should
         // be about equally wide (common practice, no source: within 30 % for B = 200).
-        var curve = Simulate(53);
-        var options = Options(areaKnown: true);
+        var curve = Baseline.Simulate(53);
+        var options = Baseline.Options(areaKnown: true);
         var fit = JunctionFitter.Fit(curve, Model, options);
         var boot = BootstrapIntervals.Compute(curve, Model, options, fit);
         Assert.Contains("B = 200", boot.Quality!.IntervalMethod, StringComparison.Ordinal);
-        foreach (var (key, _) in FreeKeys(areaKnown: true))
+        foreach (var (key, _) in Baseline.FreeKeys(areaKnown: true))
         {
             var w = fit.Find(key)!;
             var p = boot.Find(key)!;
@@ -65,11 +65,11 @@ public class BootstrapIntervalsTests
     {
         // Exercises the standardisation by the noise model: with σ_floor set, residuals are divided by
         // sᵢ = √(r² + (σ_floor/|Iᵢ|)²) before resampling and multiplied by the target point's sᵢ after.
-        var curve = Simulate(54);
-        var options = Options(areaKnown: true) with { NoiseFloorA = 1e-12 };
+        var curve = Baseline.Simulate(54);
+        var options = Baseline.Options(areaKnown: true) with { NoiseFloorA = 1e-12 };
         var fit = JunctionFitter.Fit(curve, Model, options);
         var boot = BootstrapIntervals.Compute(curve, Model, options, fit, replicates: 40);
-        foreach (var (key, _) in FreeKeys(areaKnown: true))
+        foreach (var (key, _) in Baseline.FreeKeys(areaKnown: true))
         {
             var p = boot.Find(key)!;
             var (lower, upper) = Bounds(key);
@@ -81,7 +81,7 @@ public class BootstrapIntervalsTests
     [Fact]
     public void Compute_FailedFit_ReturnsFitWithWarning()
     {
-        var curve = Simulate(55);
+        var curve = Baseline.Simulate(55);
         var failed = FitResult.Failed(curve.SourcePath, "simmons", "no usable points");
         var result = BootstrapIntervals.Compute(curve, Model, FitOptions.Default, failed);
         Assert.Equal(FitStatus.Failed, result.Status);
@@ -91,7 +91,7 @@ public class BootstrapIntervalsTests
     [Fact]
     public void Compute_TooFewReplicates_Throws()
     {
-        var curve = Simulate(56);
+        var curve = Baseline.Simulate(56);
         var fit = JunctionFitter.Fit(curve, Model, FitOptions.Default);
         Assert.Throws<ArgumentOutOfRangeException>(() => BootstrapIntervals.Compute(curve, Model, FitOptions.Default, fit, replicates: 5));
     }

@@ -6,7 +6,7 @@ using JunctionFit.Results;
 using MathNet.Numerics.Distributions;
 using Xunit;
 using Xunit.Abstractions;
-using static JunctionFit.Tests.Fitting.ProfileLikelihoodAndBootstrapCases;
+using static JunctionFit.Tests.Fitting.TruthPoint;
 
 namespace JunctionFit.Tests.Fitting;
 
@@ -28,11 +28,11 @@ public class ProfileLikelihoodIntervalsTests(ITestOutputHelper output)
     {
         // The profile compares RSS values of different fits of one curve; that is valid only if the refits weigh the
         // points as the fit did (same mask, same noise estimate). Fixing a parameter at its estimate must give S_min back.
-        var curve = Simulate(41);
-        var options = Options(areaKnown);
+        var curve = Baseline.Simulate(41);
+        var options = Baseline.Options(areaKnown);
         var fit = JunctionFitter.Fit(curve, Model, options);
         double sMin = fit.Quality!.ResidualSumOfSquares;
-        foreach (var (key, _) in FreeKeys(areaKnown))
+        foreach (var (key, _) in Baseline.FreeKeys(areaKnown))
         {
             double s = RefitRss(curve, options, key, fit.Find(key)!.Value);
             Assert.Equal(sMin, s, sMin * 1e-6);
@@ -45,14 +45,14 @@ public class ProfileLikelihoodIntervalsTests(ITestOutputHelper output)
         // With the area known the fit is well conditioned and nearly linear in (ln φ, ln d); the likelihood-ratio interval
         // with the F threshold and the Wald interval with the t quantile then coincide asymptotically (G. A. F. Seber and
         // C. J. Wild, Nonlinear Regression, Wiley 1989, on the equivalence of the two constructions; from memory).
-        var options = Options(areaKnown: true);
+        var options = Baseline.Options(areaKnown: true);
         for (int seed = 1; seed <= 10; seed++)
         {
-            var curve = Simulate(seed);
+            var curve = Baseline.Simulate(seed);
             var fit = JunctionFitter.Fit(curve, Model, options);
             var profile = ProfileLikelihoodIntervals.Compute(curve, Model, options, fit);
             Assert.Equal(ProfileLikelihoodIntervals.MethodScaled, profile.Quality!.IntervalMethod);
-            foreach (var (key, _) in FreeKeys(areaKnown: true))
+            foreach (var (key, _) in Baseline.FreeKeys(areaKnown: true))
             {
                 var w = fit.Find(key)!;
                 var p = profile.Find(key)!;
@@ -69,14 +69,14 @@ public class ProfileLikelihoodIntervalsTests(ITestOutputHelper output)
     {
         // Threshold S_min·(1 + F₀.₉₅(1, ν)/ν) (D. M. Bates and D. G. Watts, Nonlinear Regression Analysis and Its
         // Applications, Wiley 1988; from memory). F quantile from MathNet (a general-purpose reference library).
-        var curve = Simulate(42);
-        var options = Options(areaKnown);
+        var curve = Baseline.Simulate(42);
+        var options = Baseline.Options(areaKnown);
         var fit = JunctionFitter.Fit(curve, Model, options);
         var profile = ProfileLikelihoodIntervals.Compute(curve, Model, options, fit);
         double sMin = fit.Quality!.ResidualSumOfSquares;
-        int nu = fit.Quality.PointsUsed - FreeKeys(areaKnown).Length;
+        int nu = fit.Quality.PointsUsed - Baseline.FreeKeys(areaKnown).Length;
         double deltaS = sMin * FisherSnedecor.InvCDF(1, nu, 0.95) / nu;
-        foreach (var (key, _) in FreeKeys(areaKnown))
+        foreach (var (key, _) in Baseline.FreeKeys(areaKnown))
         {
             var p = profile.Find(key)!;
             foreach (double end in new[] { p.Lower95!.Value, p.Upper95!.Value })
@@ -93,13 +93,13 @@ public class ProfileLikelihoodIntervalsTests(ITestOutputHelper output)
     {
         // Known noise: threshold S_min + χ²₀.₉₅(1) = S_min + 3.841 (the 95 % point of χ² with one degree of freedom,
         // standard statistical tables).
-        var curve = Simulate(43);
-        var options = Options(areaKnown: true) with { RelativeNoise = Noise };
+        var curve = Baseline.Simulate(43);
+        var options = Baseline.Options(areaKnown: true) with { RelativeNoise = Baseline.RelativeNoise };
         var fit = JunctionFitter.Fit(curve, Model, options);
         var profile = ProfileLikelihoodIntervals.Compute(curve, Model, options, fit);
         Assert.Equal(ProfileLikelihoodIntervals.MethodKnownNoise, profile.Quality!.IntervalMethod);
         double sMin = fit.Quality!.ResidualSumOfSquares;
-        foreach (var (key, _) in FreeKeys(areaKnown: true))
+        foreach (var (key, _) in Baseline.FreeKeys(areaKnown: true))
         {
             var p = profile.Find(key)!;
             foreach (double end in new[] { p.Lower95!.Value, p.Upper95!.Value })
@@ -114,10 +114,10 @@ public class ProfileLikelihoodIntervalsTests(ITestOutputHelper output)
     {
         // A ±50 mV sweep with 5 % noise is ohmic: only the zero-bias conductance is determined, so with the area free the
         // profile of the barrier height stays flat towards one bound at least.
-        double[] truth = TruthSi;
+        double[] truth = Baseline.TruthSi;
         var (v, i) = IvSimulator.Simulate(Model, truth, new SimulationSpec(-0.05, 0.05, 41) { RelativeNoise = 0.05, Seed = 5 });
         var curve = new IvCurve("ohmic.csv", v, i);
-        var options = Options(areaKnown: false);
+        var options = Baseline.Options(areaKnown: false);
         var fit = JunctionFitter.Fit(curve, Model, options);
         var profile = ProfileLikelihoodIntervals.Compute(curve, Model, options, fit);
         foreach (var w in profile.Warnings) output.WriteLine(w);
@@ -131,7 +131,7 @@ public class ProfileLikelihoodIntervalsTests(ITestOutputHelper output)
     [Fact]
     public void Compute_FailedFit_ReturnsFitWithWarning()
     {
-        var curve = Simulate(44);
+        var curve = Baseline.Simulate(44);
         var failed = FitResult.Failed(curve.SourcePath, "simmons", "no usable points");
         var result = ProfileLikelihoodIntervals.Compute(curve, Model, FitOptions.Default, failed);
         Assert.Equal(FitStatus.Failed, result.Status);
