@@ -89,7 +89,7 @@ internal sealed class FitOptionSet
     public Option<int> BootstrapReplicates { get; } = new("--bootstrap-replicates")
     {
         Description = "replicates for --interval bootstrap (at least 20)",
-        DefaultValueFactory = _ => 200,
+        DefaultValueFactory = _ => BootstrapIntervals.DefaultReplicates,
     };
 
     public Option<int> Seed { get; } = new("--seed")
