@@ -42,11 +42,19 @@ internal static class DriftCommand
             var options = new DriftOptions(parse.GetValue(reference) ?? []);
             try
             {
-                options = options with { Alpha = parse.GetValue(alpha), MinimumGoodDies = parse.GetValue(minDies) };
+                options = options with { Alpha = parse.GetValue(alpha) };
             }
             catch (ArgumentOutOfRangeException e)
             {
-                throw new UsageException(e.Message);
+                throw UsageException.ForOption("--alpha", e);
+            }
+            try
+            {
+                options = options with { MinimumGoodDies = parse.GetValue(minDies) };
+            }
+            catch (ArgumentOutOfRangeException e)
+            {
+                throw UsageException.ForOption("--min-dies", e);
             }
             var thresholds = options.Thresholds;
             foreach (string item in parse.GetValue(threshold) ?? [])

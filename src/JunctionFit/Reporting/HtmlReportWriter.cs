@@ -351,7 +351,7 @@ public static class HtmlReportWriter
         foreach (var p in r.Parameters)
         {
             var q = DisplayQuantity.From(p);
-            sb.Append("<tr><th scope=\"row\">").Append(E(q.Symbol)).Append(" <span class=\"key\">").Append(E(q.Key)).Append("</span></th>")
+            sb.Append("<tr><th scope=\"row\">").Append(E(q.Symbol)).Append(" <span class=\"key\">").Append(E(q.Label)).Append("</span></th>")
               .Append("<td class=\"num\">").Append(E(q.IsFixed ? DisplayQuantity.FormatGeneral(q.Value) : q.ValueText)).Append("</td>")
               .Append("<td class=\"num\">").Append(E(q.StandardError is double se ? DisplayQuantity.FormatGeneral(se) : "—")).Append("</td>")
               .Append("<td class=\"num\">").Append(E(q.IntervalText)).Append("</td>")
