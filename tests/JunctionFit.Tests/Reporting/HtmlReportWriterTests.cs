@@ -106,7 +106,7 @@ public class HtmlReportWriterTests
         string html = HtmlReportWriter.Render(Run, Entries());
         var section = Regex.Match(html, "<section class=\"fit\" id=\"fit-1\">(.*?)</section>", RegexOptions.Singleline).Groups[1].Value;
         Assert.Contains("<h3>Parameters</h3>", section, StringComparison.Ordinal);
-        Assert.Contains("µm²", section, StringComparison.Ordinal);
+        Assert.Contains("µm²", System.Net.WebUtility.HtmlDecode(section), StringComparison.Ordinal);
         Assert.Contains("<td>fixed</td>", section, StringComparison.Ordinal);
         Assert.Contains("relative step below tolerance", section, StringComparison.Ordinal);
         Assert.Contains("scaled by reduced chi-square", section, StringComparison.Ordinal);
