@@ -116,6 +116,16 @@ public class HtmlReportWriterTests
     }
 
     [Fact]
+    public void Render_AreaRow_NamesTheAreaInTheUnitShown()
+    {
+        // The result keeps the area in m² (key area_m2); the report shows µm², so the row must not carry the m² key.
+        string html = System.Net.WebUtility.HtmlDecode(HtmlReportWriter.Render(Run, Entries()));
+        Assert.Contains("A <span class=\"key\">effective area</span>", html, StringComparison.Ordinal);
+        Assert.DoesNotContain("<span class=\"key\">area_m2</span>", html, StringComparison.Ordinal);
+        Assert.Matches("effective area</span></th><td class=\"num\">101[^<]*</td>.*?<td>µm²</td>", html); // 1.01e-10 m² = 101 µm²
+    }
+
+    [Fact]
     public void Write_ExistingFile_IsReplacedWithoutTempFiles()
     {
         string dir = Path.Combine(Path.GetTempPath(), "jf-html-" + Guid.NewGuid().ToString("N"));
