@@ -1,5 +1,4 @@
 using System.CommandLine;
-using JunctionFit.Fitting;
 using JunctionFit.Import;
 using JunctionFit.Lots;
 using JunctionFit.Reporting;

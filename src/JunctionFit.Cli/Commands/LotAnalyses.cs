@@ -1,4 +1,3 @@
-using System.Collections.Immutable;
 using System.Globalization;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
@@ -6,7 +5,6 @@ using JunctionFit.Lots;
 using JunctionFit.Physics;
 using JunctionFit.Reporting;
 using JunctionFit.Results;
-using JunctionFit.Storage;
 
 namespace JunctionFit.Cli.Commands;
 

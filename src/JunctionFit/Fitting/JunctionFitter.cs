@@ -3,7 +3,6 @@ using JunctionFit.Import;
 using JunctionFit.Physics;
 using JunctionFit.Results;
 using MathNet.Numerics.Distributions;
-using MathNet.Numerics.LinearAlgebra;
 
 namespace JunctionFit.Fitting;
 

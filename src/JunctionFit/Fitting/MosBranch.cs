@@ -1,4 +1,3 @@
-using System.Collections.Immutable;
 using JunctionFit.Import;
 using JunctionFit.Physics;
 

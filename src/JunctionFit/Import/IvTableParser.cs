@@ -131,7 +131,7 @@ internal static class IvTableParser
     {
         private readonly List<string> _warnings = [];
         private char _delimiter;
-        private bool? _decimalCommaOption = options.DecimalComma;
+        private readonly bool? _decimalCommaOption = options.DecimalComma;
         private bool _usedComma;
 
         private ReadOnlySpan<char> Line(int i) => text.AsSpan(lines.Start(i), lines.Length(i));

@@ -60,8 +60,8 @@ public static class FitPlotRenderer
     public static byte[] RenderPng(FitResult result, int widthPx = 900, int heightPx = 700)
     {
         ArgumentNullException.ThrowIfNull(result);
-        CheckSide(widthPx, nameof(widthPx));
-        CheckSide(heightPx, nameof(heightPx));
+        Guard.InRange(widthPx, MinimumSidePx, MaximumSidePx);
+        Guard.InRange(heightPx, MinimumSidePx, MaximumSidePx);
         if (result.Curve is { } curve) CheckCurve(curve);
         else heightPx = Math.Min(heightPx, FailureBannerMaxHeightPx);
 
@@ -98,13 +98,6 @@ public static class FitPlotRenderer
         AtomicFile.WriteAllBytes(path, RenderPng(result));
     }
 
-    private static void CheckSide(int px, string name)
-    {
-        if (px < MinimumSidePx || px > MaximumSidePx)
-        {
-            throw new ArgumentOutOfRangeException(name, px, $"must be between {MinimumSidePx} and {MaximumSidePx} pixels");
-        }
-    }
 
     private static void CheckCurve(CurveSnapshot curve)
     {
@@ -624,7 +617,7 @@ public static class FitPlotRenderer
 
     // ---- failure banner -----------------------------------------------------------------------
 
-    private static void DrawFailureBanner(IRenderContext rc, OxyRect page, FitResult result)
+    private static void DrawFailureBanner(SkiaRenderContext rc, OxyRect page, FitResult result)
     {
         double top = DrawTitle(rc, page, result);
         var frame = new OxyRect(Margin, top + 4, page.Width - 2 * Margin, Math.Max(page.Bottom - top - 4 - Margin, 20));

@@ -6,6 +6,7 @@ using System.Globalization;
 using System.Text;
 using System.Text.Json;
 using JunctionFit.Results;
+using JunctionFit.Common;
 
 namespace JunctionFit.Storage;
 
@@ -831,13 +832,7 @@ internal abstract class SqlResultStore : IResultStore
         if (key.Model is null) throw new ArgumentException("the key is empty (default)", nameof(key));
     }
 
-    private static void CheckLease(TimeSpan lease)
-    {
-        if (lease <= TimeSpan.Zero || lease > TimeSpan.FromDays(1))
-        {
-            throw new ArgumentOutOfRangeException(nameof(lease), lease, "a lease must be more than zero and at most one day");
-        }
-    }
+    private static void CheckLease(TimeSpan lease) => Guard.Duration(lease, TimeSpan.FromDays(1));
 
     private static int CompareKeys(ResultKey a, ResultKey b)
     {

@@ -52,7 +52,7 @@ public class HtmlReportWriterTests
     public void Render_TwoPlots_EmbedsOneDataUriPerPlot()
     {
         string html = HtmlReportWriter.Render(Run, Entries());
-        Assert.Equal(2, Regex.Matches(html, Regex.Escape("<img src=\"data:image/png;base64,")).Count);
+        Assert.Equal(2, Regex.Count(html, Regex.Escape("<img src=\"data:image/png;base64,")));
         Assert.Contains("no plot for this result", html, StringComparison.Ordinal);
     }
 
@@ -81,7 +81,7 @@ public class HtmlReportWriterTests
         string html = HtmlReportWriter.Render(Run, Entries());
         var body = Regex.Match(html, "<table class=\"summary sortable\">.*?<tbody>(.*?)</tbody>", RegexOptions.Singleline);
         Assert.True(body.Success);
-        Assert.Equal(3, Regex.Matches(body.Groups[1].Value, "<tr>").Count);
+        Assert.Equal(3, Regex.Count(body.Groups[1].Value, "<tr>"));
         Assert.Contains("die_03_05.csv", body.Groups[1].Value, StringComparison.Ordinal);
         Assert.Contains(">2.0041 <span class=\"ci\">[1.9957, 2.0126]</span>", body.Groups[1].Value, StringComparison.Ordinal);
         Assert.Contains(">101.0 <span class=\"ci\">[97.5, 104.6]</span>", body.Groups[1].Value, StringComparison.Ordinal);
