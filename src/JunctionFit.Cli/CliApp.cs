@@ -34,9 +34,14 @@ public static class CliApp
         root.Subcommands.Add(ResultsCommand.Create(context));
         root.Subcommands.Add(PlanCommand.Create(context));
         var parse = root.Parse(args);
-        if (parse.Errors.Count > 0)
+        var unknownCommand = parse.CommandResult.Command == root
+            ? args.TakeWhile(a => !a.StartsWith('-')).FirstOrDefault()
+            : null;
+        if (parse.Errors.Count > 0 || unknownCommand is not null)
         {
             var messages = parse.Errors.Select(e => e.Message).ToList();
+            // 'junctionfit fitt --help' must not show the root help with exit 0 as if 'fitt' were a command.
+            if (messages.Count == 0) messages.Add($"'{unknownCommand}' is not a command");
             if (messages.Count > 1) messages.RemoveAll(m => m.StartsWith("Required command was not provided", StringComparison.Ordinal));
             foreach (string message in messages) stderr.WriteLine($"junctionfit: {message}");
             stderr.WriteLine("junctionfit: run 'junctionfit --help' or 'junctionfit COMMAND --help' for usage");

@@ -31,6 +31,8 @@ public class BatchDatabaseTests
         }
     }
 
+    /// <summary>Starts a batch, kills it (SIGKILL) once it has stored 100 files, and asserts that the kill really happened
+    /// mid-run: exit code 137 (128 + SIGKILL) and a partial count, at least 100 and fewer than all files.</summary>
     private static void KillMidRun(string inputDir, string outDir, string db, Func<long> storedCount)
     {
         string tool = Path.Combine(AppContext.BaseDirectory, "junctionfit.dll");
@@ -42,15 +44,19 @@ public class BatchDatabaseTests
         process.BeginErrorReadLine();
         process.BeginOutputReadLine();
         var clock = Stopwatch.StartNew(); // a deadline for the poll, not a timed assertion
-        while (!process.HasExited && clock.Elapsed < TimeSpan.FromSeconds(60))
+        while (!process.HasExited && clock.Elapsed < TimeSpan.FromSeconds(120))
         {
             long n = 0;
             try { n = storedCount(); } catch (Exception e) when (e is ResultStoreException or IOException or InvalidOperationException) { }
             if (n >= 100) break;
             Thread.Sleep(20);
         }
-        if (!process.HasExited) process.Kill(entireProcessTree: true); // SIGKILL on Linux
+        Assert.False(process.HasExited, "the batch finished (or failed) before it could be killed mid-run");
+        process.Kill(entireProcessTree: true); // SIGKILL on Linux
         process.WaitForExit();
+        Assert.Equal(137, process.ExitCode);
+        long stored = storedCount();
+        Assert.InRange(stored, 100, Files - 1);
     }
 
     private static void RunTwiceMoreAndCheck(TempFolder dir, string input, string outDir, string db, string lot)

@@ -1,5 +1,6 @@
 using System.Diagnostics;
 using System.Text.Json;
+using System.Text.RegularExpressions;
 using Xunit;
 
 namespace JunctionFit.Tests.Cli;
@@ -176,25 +177,68 @@ public class FitIntervalOptionTests
 
 public class HelpTextTests
 {
-    [Fact]
-    public void Help_Root_ListsEveryCommandAndExitsZero()
+    /// <summary>The commands the README and docs/cli.md document (the script interface of DESIGN.md).</summary>
+    private static readonly string[] Commands = ["fit", "simulate", "demo", "inspect", "batch", "drift", "thickness", "temperature-series", "results", "plan"];
+
+    /// <summary>The command names of the root help's "Commands:" section: the first word of each entry line.</summary>
+    private static List<string> ListedCommands(string help)
     {
+        var names = new List<string>();
+        bool inSection = false;
+        foreach (string line in help.Split('\n'))
+        {
+            if (line.TrimEnd() == "Commands:") { inSection = true; continue; }
+            if (!inSection) continue;
+            if (line.Trim().Length == 0) break;
+            if (line.StartsWith("  ", StringComparison.Ordinal) && !line.StartsWith("   ", StringComparison.Ordinal))
+            {
+                names.Add(line.Trim().Split(' ')[0]);
+            }
+        }
+        return names;
+    }
+
+    [Fact]
+    public void Help_Root_ListsExactlyTheDocumentedCommandsAndExitsZero()
+    {
+        // A command gone, renamed or added without docs fails here: the listed names are read from the section, not searched
+        // for anywhere in the text (where descriptions mention other commands' names).
         var (code, output, _) = CliRunner.Run("--help");
         Assert.Equal(0, code);
-        foreach (string command in new[] { "fit", "simulate", "demo", "inspect", "batch", "drift", "thickness", "temperature-series", "results", "plan" })
+        Assert.Equal(Commands.Order(StringComparer.Ordinal), ListedCommands(output).Order(StringComparer.Ordinal));
+    }
+
+    [Fact]
+    public void Help_EveryCommand_HasItsOwnUsageLineAndExitsZero()
+    {
+        foreach (string command in Commands)
         {
-            Assert.Contains(command, output, StringComparison.Ordinal);
+            var (code, output, err) = CliRunner.Run(command, "--help");
+            Assert.True(code == 0, $"{command} --help: exit {code} {err}");
+            // The usage line names the command after the program name (which is the test host's name in process).
+            Assert.Matches($@"Usage:\r?\n  \S+ {Regex.Escape(command)}( |\r?\n)", output);
         }
+    }
+
+    [Fact]
+    public void Help_RemovedCommand_IsAnErrorNotHelp()
+    {
+        // The check above can fail: a name that is not a command is refused with exit 2 (the documented usage-error code).
+        var (code, _, err) = CliRunner.Run("fitt", "--help");
+        Assert.Equal(2, code);
+        Assert.Contains("'fitt' is not a command", err, StringComparison.Ordinal);
     }
 
     [Fact]
     public void Help_Fit_DescribesTheScriptInterface()
     {
+        // Options listed in the help's option section (each at the start of an entry line), not merely mentioned in a text.
         var (code, output, _) = CliRunner.Run("fit", "--help");
         Assert.Equal(0, code);
+        var optionLines = output.Split('\n').Select(l => l.TrimStart()).Where(l => l.StartsWith("--", StringComparison.Ordinal) || l.StartsWith("-", StringComparison.Ordinal)).ToList();
         foreach (string option in new[] { "--model", "--area", "--mass-ratio", "--json", "--out", "--interval", "--free", "--fix" })
         {
-            Assert.Contains(option, output, StringComparison.Ordinal);
+            Assert.Contains(optionLines, l => l.Split(' ', ',')[0] == option || l.Contains(", " + option + " ", StringComparison.Ordinal));
         }
     }
 }

@@ -11,9 +11,12 @@ namespace JunctionFit.Tests.Fitting;
 /// </summary>
 public sealed class NistStrdTests(ITestOutputHelper output)
 {
-    // Pass bar: log relative error of every parameter ≥ 6 and of every standard deviation ≥ 4.
+    // Pass bar: log relative error of every parameter, every standard deviation and of the residual sum of squares ≥ 6
+    // (NIST gives the certified values to 11 significant digits; an LRE of 6 is the bar its own guidance uses for a good
+    // solver, from memory; every case here reaches 6.7 or more in the standard deviations).
     private const double ParameterBar = 6.0;
-    private const double StandardDeviationBar = 4.0;
+    private const double StandardDeviationBar = 6.0;
+    private const double ResidualSumOfSquaresBar = 6.0;
 
     internal static readonly LevenbergMarquardtOptions NistOptions = new()
     {
@@ -90,8 +93,10 @@ public sealed class NistStrdTests(ITestOutputHelper output)
         Assert.True(solution.Converged, $"{dataset} start {start}: {solution.Termination}: {solution.Reason}");
         // NIST StRD certified parameters: LRE ≥ 6.
         Assert.True(minParameter >= ParameterBar, FormattableString.Invariant($"{dataset} start {start}: parameter LRE {minParameter:F2} < {ParameterBar}"));
-        // NIST StRD certified standard deviations: LRE ≥ 4.
+        // NIST StRD certified standard deviations: LRE ≥ 6.
         Assert.True(minSd >= StandardDeviationBar, FormattableString.Invariant($"{dataset} start {start}: standard deviation LRE {minSd:F2} < {StandardDeviationBar}"));
+        // NIST StRD certified residual sum of squares: LRE ≥ 6.
+        Assert.True(rssLre >= ResidualSumOfSquaresBar, FormattableString.Invariant($"{dataset} start {start}: residual sum of squares LRE {rssLre:F2} < {ResidualSumOfSquaresBar}"));
     }
 
     [Theory]

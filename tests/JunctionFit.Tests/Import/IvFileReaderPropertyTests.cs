@@ -35,7 +35,24 @@ public class IvFileReaderPropertyTests
     {
         /// <summary>The file also holds |J| and J columns in A/cm² for an area of <see cref="ColumnAreaCm2"/>.</summary>
         public bool DensityColumns { get; init; }
+
+        /// <summary>The text before encoding.</summary>
+        public string Text { get; init; } = "";
+
+        /// <summary>The encoding of <see cref="Bytes"/>, one of <see cref="Encodings"/>.</summary>
+        public string EncodingName { get; init; } = "utf8";
     }
+
+    /// <summary>The bytes of <paramref name="text"/> in one of <see cref="Encodings"/> (with its byte-order mark where named).</summary>
+    private static byte[] Encode(string text, string encoding) => encoding switch
+    {
+        "utf8" => new UTF8Encoding(false).GetBytes(text),
+        "utf8bom" => [.. Encoding.UTF8.GetPreamble(), .. Encoding.UTF8.GetBytes(text)],
+        "utf16le-bom" => [.. Encoding.Unicode.GetPreamble(), .. Encoding.Unicode.GetBytes(text)],
+        "utf16be-bom" => [.. Encoding.BigEndianUnicode.GetPreamble(), .. Encoding.BigEndianUnicode.GetBytes(text)],
+        "utf16le" => Encoding.Unicode.GetBytes(text),
+        _ => throw new ArgumentOutOfRangeException(nameof(encoding), encoding, "not a generated encoding"),
+    };
 
     /// <summary>Area behind the generated |J| and J columns, in cm².</summary>
     private const double ColumnAreaCm2 = 1.257e-5;
@@ -186,17 +203,10 @@ public class IvFileReaderPropertyTests
         }
 
         string text = sb.ToString();
-        byte[] bytes = encoding switch
-        {
-            "utf8" => new UTF8Encoding(false).GetBytes(text),
-            "utf8bom" => [.. Encoding.UTF8.GetPreamble(), .. Encoding.UTF8.GetBytes(text)],
-            "utf16le-bom" => [.. Encoding.Unicode.GetPreamble(), .. Encoding.Unicode.GetBytes(text)],
-            "utf16be-bom" => [.. Encoding.BigEndianUnicode.GetPreamble(), .. Encoding.BigEndianUnicode.GetBytes(text)],
-            _ => Encoding.Unicode.GetBytes(text),
-        };
+        byte[] bytes = Encode(text, encoding);
         string description = $"delim={IvTableParser.DelimiterName(delim)} comma={decimalComma} quote={quoteNumbers}/{quoteHeader} header={header} trailing={trailingHeaderDelimiter} densities={densityColumns} notation={notation} units={vUnitText},{iUnitText} extras={extras} order={string.Join("", cols)} nl={nl.Replace("\r", "CR").Replace("\n", "LF")} enc={encoding}\n{text}";
         bool si = vUnit.PowerOfTen == 0 && iUnit.PowerOfTen == 0 && !density;
-        return new GeneratedFile(bytes, description, vs, cs, si ? 0 : density ? 1e-14 : 1e-15) { DensityColumns = densityColumns };
+        return new GeneratedFile(bytes, description, vs, cs, si ? 0 : density ? 1e-14 : 1e-15) { DensityColumns = densityColumns, Text = text, EncodingName = encoding };
     }
 
     [Fact]
@@ -281,14 +291,34 @@ public class IvFileReaderPropertyTests
     }
 
     [Fact]
+    public void Write_EveryEncoding_DecodesBackToItsText()
+    {
+        // The generator's bytes are what they claim to be: each encoding decodes (with the BCL decoders) to the text.
+        foreach (string name in Encodings)
+        {
+            const string text = "Voltage (V),Current (µA)\n0.1,2.5\n0.2,5.5\n0.3,9.0\n";
+            byte[] bytes = Encode(text, name);
+            string decoded = name switch
+            {
+                "utf8" or "utf8bom" => new UTF8Encoding(false).GetString(bytes).TrimStart('\uFEFF'),
+                "utf16be-bom" => Encoding.BigEndianUnicode.GetString(bytes).TrimStart('\uFEFF'),
+                _ => Encoding.Unicode.GetString(bytes).TrimStart('\uFEFF'),
+            };
+            Assert.Equal(text, decoded);
+            Assert.Equal(3, IvFileReader.ParseBytes(bytes, "enc.csv", "enc.csv", IvReadOptions.Default).Curve.Count);
+        }
+    }
+
+    [Fact]
     public void Parse_DamagedValidFiles_NeverThrowsAnotherType()
     {
         Gen.Select(GenFile, Gen.Int[0, int.MaxValue], Gen.Int[1, 8]).Sample((file, where, edits) =>
         {
+            // Each file is damaged as text and written back in its own encoding, so the reader's decoding is exercised too
+            // (before, every file was decoded as UTF-16LE, which turned three of the five encodings into junk before damage).
             GeneratedFile f = Write(file.Seed, file.Points);
-            string text = Encoding.UTF8.GetString(Encoding.Convert(Encoding.Unicode, Encoding.UTF8, f.Bytes.Length > 0 && f.Bytes[0] == 0xFF ? f.Bytes[2..] : f.Bytes));
             var rng = new Random(where);
-            var sb = new StringBuilder(text);
+            var sb = new StringBuilder(f.Text);
             const string junk = "0.,;\t \"#:=\r\nNaNµ(V)";
             for (int k = 0; k < edits && sb.Length > 0; k++)
             {
@@ -308,7 +338,7 @@ public class IvFileReaderPropertyTests
             }
             try
             {
-                _ = IvFileReader.Parse(sb.ToString(), "damaged.csv");
+                _ = IvFileReader.ParseBytes(Encode(sb.ToString(), f.EncodingName), "damaged.csv", "damaged.csv", IvReadOptions.Default);
             }
             catch (IvFormatException e)
             {

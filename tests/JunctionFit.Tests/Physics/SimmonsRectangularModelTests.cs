@@ -18,15 +18,6 @@ public class SimmonsRectangularModelTests
         Assert.Equal(1.025, perAngstromPerRootEv, 3);
     }
 
-    [Fact]
-    public void Prefactor_InHandbookUnits_Is62e10AmperePerSquareCentimetrePerVolt()
-    {
-        // Handbook constant e²/(2πh) = 6.2×10¹⁰ A cm⁻² V⁻¹ Å² (common practice, no source).
-        double siAmperePerVolt = Ev * Ev / (2 * Math.PI * PhysicalConstants.PlanckJs);
-        double handbook = siAmperePerVolt * 1e20 /* per Å² */ * 1e-4 /* per cm² */;
-        Assert.InRange(handbook / 6.2e10, 0.99, 1.01);
-    }
-
     [Theory]
     [InlineData(2.0, 15.0, 0.3)]
     [InlineData(1.0, 20.0, 0.8)]
