@@ -73,7 +73,8 @@ public sealed class SimmonsImageForceModel : IBarrierModel, IThermalDecay
     /// <summary>The image-force geometry at a bias: turning points s₁, s₂ (m), width Δs (m), mean barrier φ̄ (J), and whether it is physical.</summary>
     /// <param name="voltageV">Bias in volt.</param>
     /// <param name="parameters">SI parameters.</param>
-    public static (double S1M, double S2M, double WidthM, double MeanBarrierJ, bool Valid) Geometry(double voltageV, ReadOnlySpan<double> parameters)
+    [System.Diagnostics.CodeAnalysis.SuppressMessage("Performance", "CA1822", Justification = "Part of the model's instance API: callers hold the model.")]
+    public (double S1M, double S2M, double WidthM, double MeanBarrierJ, bool Valid) Geometry(double voltageV, ReadOnlySpan<double> parameters)
     {
         var g = Evaluate(voltageV, parameters, out bool valid);
         return (g.S1.V, g.S2.V, g.Width.V, g.PhiBar.V, valid);

@@ -45,7 +45,7 @@ public class SimmonsImageForceModelTests
         {
             double v = frac * phi;
             var p = P(phi, d, r, k);
-            if (!SimmonsImageForceModel.Geometry(v, p).Valid) continue;
+            if (!Model.Geometry(v, p).Valid) continue;
             worst = Math.Max(worst, GradientAssert.Relative(Independent(v, phi, d * 10, r, k), Model.CurrentDensity(v, p)));
             compared++;
         }
@@ -70,7 +70,7 @@ public class SimmonsImageForceModelTests
     {
         double[] rect = [2.0 * Ev, 2.0e-9, 1.0];
         Assert.True(Model.CurrentDensity(0.5, P(2.0, 2.0, 1.0, 4.0)) > 2 * SimmonsRectangularModel.Instance.CurrentDensity(0.5, rect));
-        var g = SimmonsImageForceModel.Geometry(0.5, P(2.0, 2.0, 1.0, 4.0));
+        var g = Model.Geometry(0.5, P(2.0, 2.0, 1.0, 4.0));
         Assert.True(g.Valid && g.S1M > 0 && g.S2M < 2e-9 && g.MeanBarrierJ < 2.0 * Ev);
     }
 
