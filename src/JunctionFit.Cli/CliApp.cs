@@ -14,14 +14,10 @@ public static class CliApp
         return at > 0 ? message[..at] : message;
     }
 
-    /// <summary>Runs the tool; returns the exit code (see <see cref="ExitCodes"/>).</summary>
-    /// <param name="args">Command-line arguments.</param>
-    /// <param name="stdout">Standard output.</param>
-    /// <param name="stderr">Standard error.</param>
-    public static int Run(string[] args, TextWriter stdout, TextWriter stderr)
+    /// <summary>The command tree: every command with its options.</summary>
+    /// <param name="context">Where the commands write.</param>
+    internal static RootCommand BuildRoot(CliContext context)
     {
-        ArgumentNullException.ThrowIfNull(args);
-        var context = new CliContext(stdout, stderr);
         var root = new RootCommand("junctionfit — barrier height, thickness and area of tunnel junctions from measured I–V sweeps.");
         root.Subcommands.Add(FitCommand.Create(context));
         root.Subcommands.Add(SimulateCommand.Create(context));
@@ -33,6 +29,21 @@ public static class CliApp
         root.Subcommands.Add(TemperatureSeriesCommand.Create(context));
         root.Subcommands.Add(ResultsCommand.Create(context));
         root.Subcommands.Add(PlanCommand.Create(context));
+        return root;
+    }
+
+    /// <summary>Runs the tool; returns the exit code (see <see cref="ExitCodes"/>).</summary>
+    /// <param name="args">Command-line arguments.</param>
+    /// <param name="stdout">Standard output.</param>
+    /// <param name="stderr">Standard error.</param>
+    public static int Run(string[] args, TextWriter stdout, TextWriter stderr)
+    {
+        ArgumentNullException.ThrowIfNull(args);
+        // The library's remedies are worded as this tool's options in everything printed (OptionWords).
+        stdout = new OptionWords.Writer(stdout);
+        stderr = new OptionWords.Writer(stderr);
+        var context = new CliContext(stdout, stderr);
+        var root = BuildRoot(context);
         var parse = root.Parse(args);
         var unknownCommand = parse.CommandResult.Command == root
             ? args.TakeWhile(a => !a.StartsWith('-')).FirstOrDefault()

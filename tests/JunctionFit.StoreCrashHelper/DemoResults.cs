@@ -11,7 +11,7 @@ namespace JunctionFit.StoreCrashHelper;
 public static class DemoResults
 {
     /// <summary>The canonical options all demo results are fitted under.</summary>
-    public static string Options { get; } = ResultIdentity.CanonicalOptions(FitOptions.Default);
+    public static string Options { get; } = FitOptionsText.Canonical(FitOptions.Default);
 
     /// <summary>The file hash of die <paramref name="i"/> (the hash of an invented file content).</summary>
     public static string FileSha256(int i) => ResultIdentity.Sha256(Encoding.UTF8.GetBytes(string.Create(CultureInfo.InvariantCulture, $"KM-A01 die {i}")));

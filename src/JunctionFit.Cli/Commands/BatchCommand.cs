@@ -1,10 +1,9 @@
 using System.CommandLine;
 using System.Globalization;
+using JunctionFit.Batch;
 using JunctionFit.Common;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
-using JunctionFit.Lots;
-using JunctionFit.Physics;
 using JunctionFit.Reporting;
 using JunctionFit.Results;
 using JunctionFit.Storage;
@@ -17,17 +16,8 @@ namespace JunctionFit.Cli.Commands;
 /// </summary>
 internal static class BatchCommand
 {
-    /// <summary>Fits that get a section of their own in the report (failed and poor fits first).</summary>
-    public const int ReportSectionLimit = 40;
-
-    /// <summary>Rows of the report's summary table (the full table is results.csv), so the report stays readable and small.</summary>
-    public const int ReportSummaryLimit = 2000;
-
     /// <summary>Folder of the fit plots inside the output folder (results.csv names plots relative to the output folder).</summary>
     public const string PlotDirName = "plots";
-
-    /// <summary>Parameters drawn as wafer maps.</summary>
-    public static readonly string[] MapKeys = [ParameterKey.BarrierHeight.Name, ParameterKey.Thickness.Name, ParameterKey.Area.Name, ParameterKey.FlatBandVoltage.Name];
 
     public static Command Create(CliContext context)
     {
@@ -110,7 +100,7 @@ internal static class BatchCommand
         }
         Directory.CreateDirectory(s.OutDir);
         string plotDir = Path.Combine(s.OutDir, PlotDirName);
-        string mapDir = Path.Combine(s.OutDir, "maps");
+        string mapDir = Path.Combine(s.OutDir, LotReport.MapDirName);
         if (s.Plots) Directory.CreateDirectory(plotDir);
         Directory.CreateDirectory(mapDir);
 
@@ -120,12 +110,12 @@ internal static class BatchCommand
         var rows = new List<ResultRow>(files.Count);
         var results = new List<FitResult>(files.Count);
         var plotByIndex = new string?[files.Count];
-        var reportCandidates = new List<(int Index, FitResult Result, string? Plot)>();
+        var reportCandidates = new ReportCandidates();
         var plotNames = new HashSet<string>(StringComparer.Ordinal);
         int unreadable = 0, notOk = 0, done = 0;
         var progress = new Progress(context.Error, files.Count);
         using var store = s.Database is null ? null : OpenStore(s.Database);
-        string optionsText = ResultIdentity.CanonicalOptions(s.Plan.Options, s.IdentityExtras);
+        string optionsText = FitOptionsText.Canonical(s.Plan.Options, s.IdentityExtras);
         string optionsHash = ResultIdentity.OptionsHash(optionsText);
         var fileKeys = new ResultKey?[files.Count];
         var stored = new Dictionary<ResultKey, StoredResult>();
@@ -212,7 +202,7 @@ internal static class BatchCommand
                     Plot = plot is null ? null : PlotDirName + "/" + Path.GetFileName(plot),
                 };
                 Emit(index, row, result with { Curve = null });
-                KeepForReport(reportCandidates, index, result with { Curve = null }, plot);
+                reportCandidates.Offer(index, result with { Curve = null }, plot);
                 progress.Report(++done);
             }
             if (work is null)
@@ -242,83 +232,21 @@ internal static class BatchCommand
         if (store is not null) context.Error.WriteLine($"junctionfit batch: database {store.Description} holds {store.Count()} results");
         progress.Finish();
 
-        // Lot summary and wafer maps.
-        var lots = LotSummary.Compute(rows);
-        LotSummaryCsv.Write(Path.Combine(s.OutDir, LotSummaryCsv.FileName), lots);
-        var maps = new List<HtmlImage>();
-        foreach (var wafer in rows.Where(r => r.DieX is not null && r.DieY is not null)
-                     .GroupBy(r => (r.Lot ?? "", r.Wafer ?? "")).OrderBy(g => g.Key.Item1, StringComparer.Ordinal).ThenBy(g => g.Key.Item2, StringComparer.Ordinal))
+        // Lot summary, wafer maps and report (JunctionFit.Batch); the words that name options are given here.
+        var report = LotReport.Write(new LotReportRequest(s.OutDir, rows, results, plotByIndex, reportCandidates,
+            new HtmlRunInfo(VersionInfo.Text, DateTimeOffset.Now, s.Plan.DisplayName, $"batch {s.InputDir}; {s.Summary}") { Title = "JunctionFit lot report" })
         {
-            var dies = wafer.ToList();
-            foreach (string key in MapKeys)
-            {
-                // A parameter held fixed on every die (the area with --area) has nothing to map.
-                if (!dies.Any(d => d.Find(key) is { StandardError: not null })) continue;
-                byte[] png = WaferMapRenderer.RenderPng(dies, key);
-                AtomicFile.WriteAllBytes(Path.Combine(mapDir, WaferMapRenderer.FileName(wafer.Key.Item1, wafer.Key.Item2, key)), png);
-                maps.Add(new HtmlImage($"lot {wafer.Key.Item1}, wafer {wafer.Key.Item2}: {key}", png));
-            }
-        }
-
-        // Report.
-        var (outliers, outlierSection) = LotAnalyses.Outliers(rows);
-        foreach (var o in outliers)
+            PlotsWritten = s.Plots,
+            ResultsFileName = ResultsCsv.FileName,
+            RefitAdvice = "fit them with --free leakage-conductance or --free series-resistance",
+            OutlierRefitAdvice = "refit with --free leakage-conductance or --free series-resistance",
+            ExtraSections = s.ExtraSections,
+        });
+        foreach (var o in report.Outliers)
         {
             context.Error.WriteLine($"junctionfit batch: out of family: {o.Row.File} in lot {o.Row.Lot}: {o.Key} = {LotAnalyses.Num(o.Value)} against the lot median {LotAnalyses.Num(o.Median)} (robust z {o.Z:0.0})");
         }
-        var sections = new List<HtmlReportSection> { LotSummarySection(lots), outlierSection };
-        if (maps.Count > 0)
-        {
-            sections.Add(new HtmlReportSection("wafer-maps", "Wafer maps")
-            {
-                Paragraphs = ["Dies on their grid, coloured by the fitted value (good fits only); a cross marks a failed die, an outline a poor fit."],
-                Images = maps,
-            });
-        }
-        if (s.ExtraSections is not null) sections.InsertRange(0, s.ExtraSections(rows));
-        // Out-of-family dies get a section of their own too: they are the dies an engineer wants to look at.
-        foreach (var o in outliers)
-        {
-            int index = rows.IndexOf(o.Row);
-            if (index >= 0 && !reportCandidates.Any(c => c.Index == index))
-            {
-                var asResult = results[index];
-                asResult = asResult with
-                {
-                    Warnings = asResult.Warnings.Add($"out of family in lot {o.Row.Lot}: {o.Key} = {LotAnalyses.Num(o.Value)} against the lot median " +
-                                                     $"{LotAnalyses.Num(o.Median)} (robust z {o.Z:0.0}); refit with --free leakage-conductance or --free series-resistance"),
-                };
-                reportCandidates.Add((index, asResult, plotByIndex[index]));
-            }
-        }
-        var shown = new HashSet<int>(reportCandidates.Select(c => c.Index));
-        var entries = new List<HtmlReportEntry>(Math.Min(rows.Count, ReportSummaryLimit));
-        var byIndex = reportCandidates.ToDictionary(c => c.Index);
-        int okListed = 0, okTotal = rows.Count(r => r.Status == FitStatus.Ok);
-        int okBudget = Math.Max(0, ReportSummaryLimit - (rows.Count - okTotal));
-        for (int i = 0; i < rows.Count; i++)
-        {
-            if (byIndex.TryGetValue(i, out var c))
-            {
-                entries.Add(new HtmlReportEntry(c.Result) { PlotPath = c.Plot, ShowSection = true });
-            }
-            else if (rows[i].Status != FitStatus.Ok || okListed++ < okBudget)
-            {
-                entries.Add(new HtmlReportEntry(results[i]) { ShowSection = false });
-            }
-        }
-        string reportPath = Path.Combine(s.OutDir, "report.html");
-        var run = new HtmlRunInfo(VersionInfo.Text, DateTimeOffset.Now, s.Plan.DisplayName, $"batch {s.InputDir}; {s.Summary}")
-        {
-            Title = "JunctionFit lot report",
-            Sections = sections,
-            SummaryNote = rows.Count > shown.Count
-                ? (entries.Count < rows.Count ? $"The table lists {entries.Count} of {rows.Count} fits (every failed and poor fit, then ok fits in order). " : "") +
-                  $"{shown.Count} of {rows.Count} fits have a section of their own below (failed and poor fits first); every fit is in {ResultsCsv.FileName}" +
-                  (s.Plots ? " and has its plot in plots/." : ".")
-                : null,
-        };
-        HtmlReportWriter.Write(reportPath, run, entries);
+        string reportPath = report.ReportPath;
 
         context.Error.WriteLine($"junctionfit batch: {rows.Count} files, {rows.Count(r => r.Status == FitStatus.Ok)} ok, " +
                                 $"{rows.Count(r => r.Status == FitStatus.PoorFit)} poor fits, {rows.Count(r => r.Status == FitStatus.Failed)} failed");
@@ -399,61 +327,10 @@ internal static class BatchCommand
         return [.. ResultSchema.ParameterKeys(perModel, withStandard: true)];
     }
 
-    private static void KeepForReport(List<(int Index, FitResult Result, string? Plot)> kept, int index, FitResult result, string? plot)
-    {
-        static int Rank(FitStatus s) => s switch { FitStatus.Failed => 0, FitStatus.PoorFit => 1, _ => 2 };
-        if (kept.Count < ReportSectionLimit)
-        {
-            kept.Add((index, result, plot));
-            return;
-        }
-        int worst = 0;
-        for (int i = 1; i < kept.Count; i++)
-        {
-            if (Rank(kept[i].Result.Status) > Rank(kept[worst].Result.Status) ||
-                (Rank(kept[i].Result.Status) == Rank(kept[worst].Result.Status) && kept[i].Index > kept[worst].Index)) worst = i;
-        }
-        // Better rank, or equal rank and earlier in the input: the kept set does not depend on the order results arrive in.
-        if (Rank(result.Status) < Rank(kept[worst].Result.Status) ||
-            (Rank(result.Status) == Rank(kept[worst].Result.Status) && index < kept[worst].Index)) kept[worst] = (index, result, plot);
-    }
-
-    internal static HtmlReportSection LotSummarySection(IReadOnlyList<LotSummaryRow> lots)
-    {
-        var header = new List<string> { "Lot", "Dies", "Ok", "Poor fit", "Failed", "Yield" };
-        // flatband_voltage_V (the mos model) only when some lot has it, so junction reports keep their columns.
-        string[] keys = lots.Any(l => l.Find(ParameterKey.FlatBandVoltage.Name) is { GoodCount: > 0 })
-            ? [ParameterKey.BarrierHeight.Name, ParameterKey.Thickness.Name, ParameterKey.Area.Name, ParameterKey.FlatBandVoltage.Name, ParameterKey.TransitionVoltage.Name]
-            : [ParameterKey.BarrierHeight.Name, ParameterKey.Thickness.Name, ParameterKey.Area.Name, ParameterKey.TransitionVoltage.Name];
-        foreach (string k in keys) { header.Add(k + " median"); header.Add(k + " robust spread"); }
-        var table = new List<IReadOnlyList<string>>();
-        foreach (var lot in lots)
-        {
-            var cells = new List<string>
-            {
-                lot.Lot, lot.Total.ToString(CultureInfo.InvariantCulture), lot.Ok.ToString(CultureInfo.InvariantCulture),
-                lot.PoorFit.ToString(CultureInfo.InvariantCulture), lot.Failed.ToString(CultureInfo.InvariantCulture),
-                lot.Yield.ToString("P1", CultureInfo.InvariantCulture),
-            };
-            foreach (string k in keys)
-            {
-                var p = lot.Find(k);
-                cells.Add(p?.Median is double m ? m.ToString("G5", CultureInfo.InvariantCulture) : "");
-                cells.Add(p?.RobustSpread is double r ? r.ToString("G3", CultureInfo.InvariantCulture) : "");
-            }
-            table.Add(cells);
-        }
-        return new HtmlReportSection("lot-summary", "Lot summary")
-        {
-            Paragraphs = ["Median and robust spread (median absolute deviation × 1.4826) over the dies with status ok; yield is the share of dies fitted ok."],
-            Tables = [new HtmlTable("Per lot", header, table)],
-        };
-    }
-
     /// <summary>A progress bar on a terminal, plain lines every 10 % otherwise (standard error).</summary>
     private sealed class Progress(TextWriter error, int total)
     {
-        private readonly bool _terminal = !Console.IsErrorRedirected && ReferenceEquals(error, Console.Error);
+        private readonly bool _terminal = !Console.IsErrorRedirected && ReferenceEquals(error is OptionWords.Writer w ? w.Inner : error, Console.Error);
         private int _lastDecile = -1;
 
         public void Report(int done)

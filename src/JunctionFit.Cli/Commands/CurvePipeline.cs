@@ -60,13 +60,13 @@ internal static class CurvePipeline
         }
         catch (IvFormatException e)
         {
-            return new CurveOutcome(path, FitResult.Failed(path, plan.DisplayName, e.Reason), e.Message);
+            return new CurveOutcome(path, FitResult.Failed(path, plan.DisplayName, OptionWords.Word(e.Reason)!), OptionWords.Word(e.Message));
         }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException)
         {
             return new CurveOutcome(path, FitResult.Failed(path, plan.DisplayName, e.Message), $"{path}:0: cannot read: {e.Message}");
         }
         watch?.Stage($"fitting {curve.Count} points ({plan.DisplayName})");
-        return new CurveOutcome(path, plan.Fit(curve), null);
+        return new CurveOutcome(path, OptionWords.Word(plan.Fit(curve)), null);
     }
 }

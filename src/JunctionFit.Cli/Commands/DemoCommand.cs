@@ -1,4 +1,5 @@
 using System.CommandLine;
+using JunctionFit.Batch;
 using JunctionFit.Import;
 using JunctionFit.Lots;
 using JunctionFit.Reporting;
@@ -52,14 +53,14 @@ internal static class DemoCommand
                 ExtraSections = rows =>
                 {
                     var sections = new List<HtmlReportSection>();
-                    var (drift, driftSection, charts) = LotAnalyses.Drift(rows, new DriftOptions(ReferenceLot), outPath);
+                    var (drift, driftSection, charts) = LotAnalysisRun.Drift(rows, new DriftOptions(ReferenceLot), outPath);
                     flaggedLots = drift.Flagged.Count();
                     trendCharts = string.Join(", ", charts.Select(Path.GetFileName));
                     sections.Add(driftSection);
                     if (File.Exists(ellipsometryPath))
                     {
                         var ellipsometry = EllipsometryCsv.Read(ellipsometryPath);
-                        var (_, wafers, thicknessSection, plot) = LotAnalyses.Thickness(rows, ellipsometry, plan, IvReadOptions.Default, outPath, Environment.ProcessorCount);
+                        var (_, wafers, thicknessSection, plot, _) = LotAnalyses.Thickness(rows, ellipsometry, plan, IvReadOptions.Default, outPath, Environment.ProcessorCount);
                         flaggedWafers = wafers.Count(w => w.Flagged);
                         blandAltman = plot is null ? null : Path.GetFileName(plot);
                         sections.Add(thicknessSection);

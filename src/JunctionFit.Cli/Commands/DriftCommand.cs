@@ -1,6 +1,8 @@
 using System.Collections.Immutable;
 using System.CommandLine;
 using System.Globalization;
+using JunctionFit.Batch;
+using JunctionFit.Import;
 using JunctionFit.Results;
 using JunctionFit.Lots;
 using JunctionFit.Reporting;
@@ -69,7 +71,7 @@ internal static class DriftCommand
             }
             options = options with { Thresholds = thresholds };
             string dir = parse.GetValue(outDir) ?? (paths.Length > 0 ? Path.GetDirectoryName(Path.GetFullPath(paths[0]))! : Directory.GetCurrentDirectory());
-            var (result, _, charts) = LotAnalyses.Drift(pooled, options, dir);
+            var (result, _, charts) = LotAnalysisRun.Drift(pooled, options, dir);
             if (parse.GetValue(json))
             {
                 foreach (var r in result.Rows) context.Out.WriteLine(LotsJsonFormatter.FormatDrift(r));
@@ -212,17 +214,16 @@ internal static class ThicknessCommand
             if (cvPaths.Length > 0)
             {
                 double? area = parse.GetValue(cvArea) is string areaText ? QuantityParser.ParseAreaM2(areaText, "--cv-area") : null;
-                cetMeasurements = LotAnalyses.ReadCet(context, cvPaths, readOptions.PathPattern, area, plan.ModelOptions.Mos.OxidePermittivity);
+                cetMeasurements = LotAnalysisRun.ReadCet(context, cvPaths, readOptions.PathPattern, area, plan.ModelOptions.Mos.OxidePermittivity);
                 if (cetMeasurements is null) return ExitCodes.UsageOrInput;
             }
-            LotAnalyses.RefitFailures = 0;
             string dir = parse.GetValue(outDir) ?? Path.GetDirectoryName(Path.GetFullPath(resultsPath))!;
-            var (comparison, wafers, _, plot) = LotAnalyses.Thickness(rows.Value, ell, plan, readOptions, dir, parse.GetValue(jobs) ?? Environment.ProcessorCount, parse.GetValue(tolerance));
+            var (comparison, wafers, _, plot, refitFailures) = LotAnalyses.Thickness(rows.Value, ell, plan, readOptions, dir, parse.GetValue(jobs) ?? Environment.ProcessorCount, parse.GetValue(tolerance));
             CetCrossCheckResult? cetCheck = null;
             string? cetCsv = null;
             if (cetMeasurements is not null)
             {
-                (cetCheck, _) = LotAnalyses.CetCheck(rows.Value, ell, cetMeasurements, wafers, cetLow, cetHigh, plan.ModelOptions.Mos.OxidePermittivity);
+                (cetCheck, _) = LotAnalysisRun.CetCheck(rows.Value, ell, cetMeasurements, wafers, cetLow, cetHigh, plan.ModelOptions.Mos.OxidePermittivity);
                 cetCsv = Path.Combine(dir, WaferThicknessCsv.FileName);
                 WaferThicknessCsv.Write(cetCsv, cetCheck, LotAnalyses.EllipsometryFlags(wafers));
             }
@@ -274,7 +275,7 @@ internal static class ThicknessCommand
                 context.Error.WriteLine($"junctionfit thickness: CET - t_ox: {cetCheck.Flagged.Count()} wafer(s) flagged; per-wafer table {cetCsv}");
             }
             bool cetIncomplete = cetCheck is not null && cetCheck.UnmatchedCet.Length > 0;
-            return comparison.Agreement is null || LotAnalyses.RefitFailures > 0 || cetIncomplete ? ExitCodes.SomeFailed : ExitCodes.Success;
+            return comparison.Agreement is null || refitFailures > 0 || cetIncomplete ? ExitCodes.SomeFailed : ExitCodes.Success;
         });
         return command;
     }

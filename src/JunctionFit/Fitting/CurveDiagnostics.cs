@@ -1,3 +1,4 @@
+using JunctionFit.Common;
 namespace JunctionFit.Fitting;
 
 /// <summary>
@@ -146,12 +147,12 @@ internal static class CurveDiagnostics
         if (maxAbsV > ImplausibleBiasV)
         {
             w.Add($"likely unit mistake: the bias reaches {maxAbsV:G4} V, far beyond any tunnel barrier or thin oxide (a few-nm oxide breaks " +
-                  "down at a few volts); if the voltage column is in mV, give --voltage-unit mV");
+                  $"down at a few volts); if the voltage column is in mV, give {new Remedy(RemedyKind.VoltageUnit, "mV")}");
         }
         if (maxAbsI > ImplausibleCurrentA)
         {
             w.Add($"likely unit mistake: the current reaches {maxAbsI:G4} A, more than a probed die passes (instruments clamp far lower); " +
-                  "if the current column is in mA, µA or nA, give --current-unit mA (or uA, nA)");
+                  $"if the current column is in mA, µA or nA, give {new Remedy(RemedyKind.CurrentUnit, "mA")} (or uA, nA)");
         }
         return w;
     }

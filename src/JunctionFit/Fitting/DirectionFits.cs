@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using JunctionFit.Common;
 using JunctionFit.Import;
 using JunctionFit.Physics;
 using JunctionFit.Results;
@@ -75,7 +76,7 @@ internal static class DirectionFits
         string text = $"hysteresis: the rising and falling sweeps differ" +
                       (logRms is double r ? $" by {r * 100:0.#} % RMS in current at the biases measured both ways" : "") +
                       (parts.Count > 0 ? $"; fitted separately, rising minus falling: {string.Join(", ", parts)} (95 %)" : "") +
-                      "; charging, trapping or drift during the sweep. Fit one direction with --sweep-direction rising|falling";
+                      $"; charging, trapping or drift during the sweep. Fit one direction with {new Remedy(RemedyKind.SweepDirection, "rising|falling")}";
         return full with
         {
             Hysteresis = report,

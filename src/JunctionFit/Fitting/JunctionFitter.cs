@@ -1,5 +1,7 @@
 using System.Collections.Immutable;
+using JunctionFit.Common;
 using JunctionFit.Import;
+using JunctionFit.Physics.Numerics;
 using JunctionFit.Physics;
 using JunctionFit.Results;
 using MathNet.Numerics.Distributions;
@@ -103,7 +105,7 @@ public static class JunctionFitter
             return Failed(curve, modelName, "open",
                 $"open circuit: the current stays at the instrument floor at every bias (largest |I| {rawMaxI:0.0#e+0} A{floorText}, " +
                 $"{data.WrongSign} of {data.InWindow} readings with the wrong sign): no contact, a broken die or the wrong channel; " +
-                "check the probe contact and the current column (--current-column)");
+                $"check the probe contact and the current column ({new Remedy(RemedyKind.CurrentColumn)})");
         }
         if (usedCount < nFree + 2)
         {
@@ -146,7 +148,7 @@ public static class JunctionFitter
         if (best is null)
         {
             return Failed(curve, modelName, "not-evaluable",
-                "the model could not be evaluated at any start value (non-finite currents); check the bias range and units (--voltage-unit, --current-unit)");
+                $"the model could not be evaluated at any start value (non-finite currents); check the bias range and units ({new Remedy(RemedyKind.VoltageUnit)}, {new Remedy(RemedyKind.CurrentUnit)})");
         }
         var fullProblem = problem;
         if (profileArea)
@@ -158,7 +160,7 @@ public static class JunctionFitter
             {
                 return Failed(curve, modelName, "no-area",
                     $"the {modelName} model cannot describe this curve at any effective area (the best area is not a finite positive number); " +
-                    "check that the model suits the bias range (--bias-window), or fix the area (--area)");
+                    $"check that the model suits the bias range ({Remedy.BiasWindow}), or fix the area ({Remedy.GiveArea})");
             }
             fullProblem = new LogCurrentProblem(model, vUsed, yUsed, invSigma, freeIndex, thetaBest);
             var x0 = new double[freeIndex.Length];
@@ -191,7 +193,7 @@ public static class JunctionFitter
                     Warnings = fallback.Warnings.Insert(0,
                         $"area fixed at the file's stated area of {statedArea * 1e12:G4} µm²: with the area free these data do not determine the barrier " +
                         $"({(bounds.Length > 0 ? bounds : "it ran to the edge of the physical range")}); the stated area may be the nominal contact area, larger than " +
-                        "the effective one — give --area for another value"),
+                        $"the effective one — give {Remedy.GiveArea} for another value"),
                     Diagnoses = fallback.Diagnoses.Add("area-from-file"),
                 };
             }
@@ -284,8 +286,8 @@ public static class JunctionFitter
             {
                 bool areaInvolved = involved.Contains(model.AreaIndex);
                 string remedy = areaInvolved
-                    ? "fix the area from the lithography (--area or --area-from-file), or widen the bias range so that the curvature of I(V) pins the barrier"
-                    : Remedy(defs[involved.Min].Key, defs[involved.Max].Key);
+                    ? $"fix the area from the lithography ({Remedy.GiveArea} or {Remedy.AreaFromFile}), or widen the bias range so that the curvature of I(V) pins the barrier"
+                    : RemedyText(defs[involved.Min].Key, defs[involved.Max].Key);
                 warnings.Add($"not identifiable: these data cannot separate {string.Join(", ", involved.Select(k => defs[k].Description))} " +
                              $"(correlation {string.Join("; ", pairs)}); their intervals are wide. Remedy: {remedy}");
             }
@@ -293,13 +295,13 @@ public static class JunctionFitter
             {
                 warnings.Add((
                     $"the scaled Jacobian is near-singular (condition number {condition:0.#e+0}); some parameter combinations are not determined. " +
-                    "Remedy: fix the area from the lithography (--area), widen the bias range, or keep the mass ratio fixed"));
+                    $"Remedy: fix the area from the lithography ({Remedy.GiveArea}), widen the bias range, or keep the mass ratio fixed"));
             }
         }
         else if (nFree > 0)
         {
             warnings.Add("the parameter covariance could not be computed (singular Jacobian or no degrees of freedom); no intervals are given. " +
-                         "Remedy: fix the area (--area) or widen the bias range");
+                         $"Remedy: fix the area ({Remedy.GiveArea}) or widen the bias range");
         }
 
         // Curve snapshot and residual diagnostics.
@@ -365,8 +367,8 @@ public static class JunctionFitter
         if (status != FitStatus.Failed && !best.Converged)
         {
             status = FitStatus.Failed;
-            error = $"the solver did not converge ({best.Reason}); fix the area (--area or --area-from-file), narrow the bias window " +
-                    "(--bias-window), or hold a parameter fixed (--fix thickness=NM)";
+            error = $"the solver did not converge ({best.Reason}); fix the area ({Remedy.GiveArea} or {Remedy.AreaFromFile}), narrow the bias window " +
+                    $"({Remedy.BiasWindow}), or hold a parameter fixed ({Remedy.Fix("thickness=NM")})";
             reason = error;
         }
         else if (status != FitStatus.Failed && !covOk && nFree > 0 && undetermined.Count == 0)
@@ -381,8 +383,8 @@ public static class JunctionFitter
                 ? $"the {string.Join(" and ", vanished)} went to zero: these data show no sign of it; fit without it"
                 : "these data do not determine the free parameters together (singular Jacobian: the curve has fewer independent features than " +
                   "free parameters); " + (isFreeArea(model, freeIndex)
-                      ? "fix the area from the lithography (--area or --area-from-file) or widen the bias range"
-                      : "widen the bias range or fix another parameter (--fix)");
+                      ? $"fix the area from the lithography ({Remedy.GiveArea} or {Remedy.AreaFromFile}) or widen the bias range"
+                      : $"widen the bias range or fix another parameter ({Remedy.Fix()})");
             reason = error;
         }
         if (status != FitStatus.Failed)
@@ -423,7 +425,7 @@ public static class JunctionFitter
                     diagnoses.Add("ohmic");
                     string ohmicWhy = $"ohmic: the curve is a straight line ({OhmicText()}) — a resistor, a leak path or a barrier swept only in its " +
                                       "linear region; tunnelling parameters need the curvature of I(V): widen the bias range, or, if a leak " +
-                                      "adds to a tunnel current, fit with --free leakage-conductance";
+                                      $"adds to a tunnel current, fit with {Remedy.Free("leakage-conductance")}";
                     warnings.Add(ohmicWhy);
                     Poor(ohmicWhy);
                 }
@@ -432,7 +434,7 @@ public static class JunctionFitter
                     && !ohmic && !diagnoses.Contains("units") && Array.IndexOf(freeIndex, model.AreaIndex) < 0)
                 {
                     warnings.Add("the barrier height ran above any insulator's (largest band gaps are about 9 eV): if the current column is not in " +
-                                 "ampere (nA, µA, mA) give --current-unit, and check the area (--area) and the voltage unit (--voltage-unit)");
+                                 $"ampere (nA, µA, mA) give {new Remedy(RemedyKind.CurrentUnit)}, and check the area ({Remedy.GiveArea}) and the voltage unit ({new Remedy(RemedyKind.VoltageUnit)})");
                 }
                 Poor(why);
                 warnings.Add(why);
@@ -445,9 +447,9 @@ public static class JunctionFitter
             if (systematic is double sys && sys > options.MisfitTolerance)
             {
                 string misfitText = ($"misfit: the model misses the curve by {sys * 100:0.#} % RMS in current beyond the point-to-point noise " +
-                     $"({relNoise * 100:0.##} %), more than the tolerance of {options.MisfitTolerance * 100:0.#} % (--misfit-tolerance); " +
-                     "another conduction mechanism, a leak or series resistance (--free leakage-conductance, --free series-resistance), " +
-                     "or only one branch follows the model (--bias-window, --polarity)");
+                     $"({relNoise * 100:0.##} %), more than the tolerance of {options.MisfitTolerance * 100:0.#} % ({new Remedy(RemedyKind.MisfitTolerance)}); " +
+                     $"another conduction mechanism, a leak or series resistance ({Remedy.Free("leakage-conductance")}, {Remedy.Free("series-resistance")}), " +
+                     $"or only one branch follows the model ({Remedy.BiasWindow}, {new Remedy(RemedyKind.Polarity)})");
                 warnings.Add(misfitText);
                 Poor(misfitText);
             }
@@ -469,7 +471,7 @@ public static class JunctionFitter
                 if (reducedChi2 > limit)
                 {
                     warnings.Add((
-                        $"reduced chi-square {reducedChi2:0.###} exceeds {limit:0.###}, the 99.9 % limit for the stated noise (--noise): the residuals " +
+                        $"reduced chi-square {reducedChi2:0.###} exceeds {limit:0.###}, the 99.9 % limit for the stated noise ({new Remedy(RemedyKind.Noise)}): the residuals " +
                         "are larger than that noise"));
                 }
             }
@@ -498,7 +500,7 @@ public static class JunctionFitter
             && Math.Abs(thetaHat[areaK] / statedArea - 1) > 0.05)
         {
             warnings.Add($"the area is fixed at {thetaHat[areaK] * 1e12:G4} µm², but the file states {statedArea * 1e12:G4} µm²; " +
-                         "check the die (use --area-from-file to take each file's own area)");
+                         $"check the die (use {Remedy.AreaFromFile} to take each file's own area)");
         }
         if (Array.IndexOf(freeIndex, areaK) >= 0 && curve.AreaM2 is double stated && stated > 0)
         {
@@ -506,7 +508,7 @@ public static class JunctionFitter
             if (ratio > 10 || ratio < 0.1)
             {
                 warnings.Add($"the fitted effective area is {ratio:0.###e+0} times the file's stated area of {stated * 1e12:G4} µm²; " +
-                             "with the area free the barrier parameters are poorly pinned — fix the area at the stated value with --area-from-file");
+                             $"with the area free the barrier parameters are poorly pinned — fix the area at the stated value with {Remedy.AreaFromFile}");
             }
         }
         // The transition voltage is a barrier property of a two-terminal tunnel junction; on a MOS gate current the minimum of
@@ -596,8 +598,8 @@ public static class JunctionFitter
         warnings.Add("trade-off: the effective mass ratio, barrier height and thickness enter the tunnelling exponent together as d·√(m*·φ); " +
                      $"with all three free these data cannot separate them (largest correlation with m* {strongest:0.000}" +
                      (undetermined.Count > 0 ? ", and the fit ran to the edge of the physical range" : "") +
-                     "). Keep the mass ratio fixed (leave out --free mass-ratio; set --mass-ratio from the literature for this barrier) or fix " +
-                     "the thickness from ellipsometry (--fix thickness=NM)");
+                     $"). Keep the mass ratio fixed (leave out {Remedy.Free("mass-ratio")}; set {new Remedy(RemedyKind.MassRatio)} from the literature for this barrier) or fix " +
+                     $"the thickness from ellipsometry ({Remedy.Fix("thickness=NM")})");
         _ = thetaHat;
     }
 
@@ -626,11 +628,15 @@ public static class JunctionFitter
         }
     }
 
-    private static string Remedy(string keyA, string keyB)
+    /// <summary>
+    /// What to change when parameters <paramref name="keyA"/> and <paramref name="keyB"/> cannot be told apart, in words with
+    /// the structured remedies as placeholders (<see cref="Common.Remedy"/>): the caller words them with its own option names.
+    /// </summary>
+    internal static string RemedyText(string keyA, string keyB)
     {
         if (keyA == "area_m2" || keyB == "area_m2")
         {
-            return "fix the area from the lithography (--area), or widen the bias range so that the curvature of I(V) pins the barrier";
+            return $"fix the area from the lithography ({Remedy.GiveArea}), or widen the bias range so that the curvature of I(V) pins the barrier";
         }
         if (keyA == "mass_ratio" || keyB == "mass_ratio")
         {

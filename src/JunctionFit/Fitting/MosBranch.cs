@@ -1,3 +1,4 @@
+using JunctionFit.Common;
 using JunctionFit.Import;
 using JunctionFit.Physics;
 
@@ -61,7 +62,7 @@ public static class MosBranch
         if (Window(curve, model, decades) is not (double low, double high)) return (curve, options);
         string range = model.InversionSign > 0 ? $"V_g ≥ {low:0.###} V (p substrate)" : $"V_g ≤ {high:0.###} V (n substrate)";
         string note = $"mos: fitted the inversion branch, {range}, where the gate current lies within {decades:0.#} decades of its largest value " +
-                      "(below it overlap, trap-assisted and instrument currents dominate); choose another branch with --bias-window or --polarity";
+                      $"(below it overlap, trap-assisted and instrument currents dominate); choose another branch with {Remedy.BiasWindow} or {new Remedy(RemedyKind.Polarity)}";
         var windowed = options with
         {
             BiasWindowLowV = double.IsFinite(low) ? low : null,

@@ -1,3 +1,4 @@
+using JunctionFit.Physics.Numerics;
 namespace JunctionFit.Fitting;
 
 /// <summary>

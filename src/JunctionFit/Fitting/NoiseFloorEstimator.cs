@@ -1,3 +1,4 @@
+using JunctionFit.Physics.Numerics;
 namespace JunctionFit.Fitting;
 
 /// <summary>Where the current noise floor σ_floor of a fit came from.</summary>

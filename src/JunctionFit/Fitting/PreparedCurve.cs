@@ -1,4 +1,6 @@
+using JunctionFit.Common;
 using JunctionFit.Import;
+using JunctionFit.Physics.Numerics;
 
 namespace JunctionFit.Fitting;
 
@@ -122,9 +124,9 @@ internal sealed record PreparedCurve(
         if (outside > 0) notes.Add($"{outside} outside the bias window or sweep direction");
         if (wrongSign > 0) notes.Add($"{wrongSign} with zero current or current of the wrong sign for its bias (offset or noise)");
         if (belowFloor > 0) notes.Add($"{belowFloor} at or below 3x the noise floor");
-        if (atCompliance > 0) notes.Add($"{atCompliance} at the current compliance (--keep-compliance keeps them)");
-        if (flagged > 0) notes.Add($"{flagged} flagged by the importer (a flat run at the current compliance; --keep-compliance keeps them)");
-        if (settled > 0) notes.Add($"{settled} settling artefact(s) at the start of a trace (--keep-settling keeps them)");
+        if (atCompliance > 0) notes.Add($"{atCompliance} at the current compliance ({new Remedy(RemedyKind.KeepCompliance)} keeps them)");
+        if (flagged > 0) notes.Add($"{flagged} flagged by the importer (a flat run at the current compliance; {new Remedy(RemedyKind.KeepCompliance)} keeps them)");
+        if (settled > 0) notes.Add($"{settled} settling artefact(s) at the start of a trace ({new Remedy(RemedyKind.KeepSettling)} keeps them)");
         if (notFinite > 0) notes.Add($"{notFinite} not finite");
         var v2 = new double[usedCount];
         var y2 = new double[usedCount];

@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using JunctionFit.Common;
 using JunctionFit.Import;
 using JunctionFit.Physics;
 using JunctionFit.Results;
@@ -137,7 +138,7 @@ public static class ProfileLikelihoodIntervals
                 string sides = lower.OpenEnded && upper.OpenEnded ? "both ends" : lower.OpenEnded ? "the lower end" : "the upper end";
                 warnings.Add($"the profile-likelihood interval of the {def.Description} is open-ended at {sides}: the residual sum of squares " +
                              "stays below the 95 % threshold out to the physical bound, so the data do not bound it there; " +
-                             "the reported end is the bound. Remedy: fix the area from the lithography (--area) or widen the bias range");
+                             $"the reported end is the bound. Remedy: fix the area from the lithography ({Remedy.GiveArea}) or widen the bias range");
             }
             if (profile.LowestFound < sMin * (1 - 1e-7))
             {

@@ -1,7 +1,8 @@
 using System.Collections.Immutable;
 using System.Globalization;
-using JunctionFit.Results;
 using JunctionFit.Common;
+using JunctionFit.Import;
+using JunctionFit.Results;
 
 namespace JunctionFit.Lots;
 
@@ -111,7 +112,7 @@ public static class CetCrossCheck
         {
             if (string.IsNullOrWhiteSpace(m.Lot) || string.IsNullOrWhiteSpace(m.Wafer))
             {
-                unmatched.Add(new UnmatchedCet(m, "the C-V file names no lot or no wafer: give '# lot:' and '# wafer:' lines or --path-pattern"));
+                unmatched.Add(new UnmatchedCet(m, $"the C-V file names no lot or no wafer: give '# lot:' and '# wafer:' lines or {new Remedy(RemedyKind.PathPattern)}"));
                 continue;
             }
             var key = (m.Lot!, m.Wafer!);

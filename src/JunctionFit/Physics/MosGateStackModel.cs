@@ -1,3 +1,4 @@
+using JunctionFit.Common;
 namespace JunctionFit.Physics;
 
 /// <summary>
@@ -266,7 +267,7 @@ public sealed class MosGateStackModel : IBarrierModel
         }
         if (!Stack.DopingStated)
         {
-            warnings.Add($"substrate doping not given: {Stack.DopingM3 / 1e6:0.##e+0} cm^-3 assumed (give --doping; it sets the threshold shape, " +
+            warnings.Add($"substrate doping not given: {Stack.DopingM3 / 1e6:0.##e+0} cm^-3 assumed (give {new Remedy(RemedyKind.Doping)}; it sets the threshold shape, " +
                          "and a C-V file's 1/C^2 slope gives it)");
         }
         if (!TemperatureStated)

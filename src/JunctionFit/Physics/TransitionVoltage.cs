@@ -53,7 +53,7 @@ public static class TransitionVoltage
         var order = new int[n];
         for (int k = 0; k < n; k++) order[k] = k;
         var keys = xs.ToArray();
-        Fitting.SortKernels.SortWithItems(keys, order);
+        Numerics.SortKernels.SortWithItems(keys, order);
         var x = keys;
         var y = new double[n];
         for (int k = 0; k < n; k++) y[k] = ys[order[k]];

@@ -2,6 +2,7 @@ using System.Buffers;
 using System.Globalization;
 using System.Text;
 using System.Text.Json;
+using JunctionFit.Common;
 using JunctionFit.Planning;
 
 namespace JunctionFit.Reporting;
@@ -206,7 +207,7 @@ public static class PlanFormatter
         if (plan.BiasLimitV is double limit)
         {
             string from = request.MaxFieldVPerM is double mf && plan.FieldThicknessNm is double td
-                ? $" (--max-field {F(mf / VoltPerMeterPerMvPerCm)} MV/cm × d = {F(td)} nm = {F(mf * td * 1e-9)} V{(request.MaxBiasV is double mb ? $"; --max-bias {F(mb)} V" : "")})"
+                ? $" ({new Remedy(RemedyKind.MaxField)} {F(mf / VoltPerMeterPerMvPerCm)} MV/cm × d = {F(td)} nm = {F(mf * td * 1e-9)} V{(request.MaxBiasV is double mb ? $"; {new Remedy(RemedyKind.MaxBias)} {F(mb)} V" : "")})"
                 : "";
             sb.Append(Inv, $"Bias limit of the search: {F(limit)} V{from}");
             if (plan.ComplianceBiasV is double cb) sb.Append(Inv, $"; the compliance is reached from {F(cb)} V");
@@ -214,7 +215,7 @@ public static class PlanFormatter
         }
         else
         {
-            sb.Append("\nNo sweep recommended: give --max-bias or --max-field (or both).\n");
+            sb.Append($"\nNo sweep recommended: give {new Remedy(RemedyKind.MaxBias)} or {new Remedy(RemedyKind.MaxField)} (or both).\n");
         }
         foreach (string w in plan.Warnings) sb.Append(Inv, $"warning: {w}\n");
         sb.Append("\nSafety:\n");

@@ -96,7 +96,7 @@ public static class ResultSchema
         new("wafer", ResultValueKind.Text, null, "wafer", r => r.Wafer),
         new("die_x", ResultValueKind.Integer, null, "die column", r => r.DieX),
         new("die_y", ResultValueKind.Integer, null, "die row", r => r.DieY),
-        new("model", ResultValueKind.Text, null, "model name (as for --model)", r => r.Model),
+        new("model", ResultValueKind.Text, null, "model name (one of the barrier model catalog's names)", r => r.Model),
         new("status", ResultValueKind.Text, null, "ok, poor-fit or failed", r => StatusText(r.Status)),
     ];
 

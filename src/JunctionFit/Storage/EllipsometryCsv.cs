@@ -2,7 +2,7 @@ using System.Collections.Immutable;
 using System.Globalization;
 using System.Text.RegularExpressions;
 using JunctionFit.Common;
-using JunctionFit.Lots;
+using JunctionFit.Import;
 
 namespace JunctionFit.Storage;
 

@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using System.Text.Json;
+using JunctionFit.Common;
 using JunctionFit.Import;
 
 namespace JunctionFit.Storage;
@@ -47,7 +48,7 @@ public static class FitJsonLineReader
             }
             catch (JsonException e)
             {
-                throw new IvFormatException(path, lineNumber, $"not a JSON line from 'fit --json' ({e.Message.Split('.')[0]})");
+                throw new IvFormatException(path, lineNumber, $"not a JSON line from '{new Remedy(RemedyKind.FitJsonOutput)}' ({e.Message.Split('.')[0]})");
             }
             using (doc)
             {
@@ -55,7 +56,7 @@ public static class FitJsonLineReader
                 if (root.ValueKind != JsonValueKind.Object || !root.TryGetProperty("parameters", out var pars) || pars.ValueKind != JsonValueKind.Object
                     || !root.TryGetProperty("model", out var model) || model.ValueKind != JsonValueKind.String)
                 {
-                    throw new IvFormatException(path, lineNumber, "not a result of 'fit --json' (no \"model\" and \"parameters\")");
+                    throw new IvFormatException(path, lineNumber, $"not a result of '{new Remedy(RemedyKind.FitJsonOutput)}' (no \"model\" and \"parameters\")");
                 }
                 if (root.TryGetProperty("status", out var status) && status.ValueKind == JsonValueKind.String && status.GetString() == "failed")
                 {
@@ -82,6 +83,6 @@ public static class FitJsonLineReader
                 return new FittedResultLine(path, lineNumber, model.GetString()!, parameters.ToImmutable(), relative, floor, file);
             }
         }
-        throw new IvFormatException(path, 0, failed > 0 ? $"all {failed} results in the file failed to fit: nothing to plan from" : "the file holds no result of 'fit --json'");
+        throw new IvFormatException(path, 0, failed > 0 ? $"all {failed} results in the file failed to fit: nothing to plan from" : $"the file holds no result of '{new Remedy(RemedyKind.FitJsonOutput)}'");
     }
 }

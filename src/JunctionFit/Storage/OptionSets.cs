@@ -6,7 +6,7 @@ namespace JunctionFit.Storage;
 
 /// <summary>One option set among result rows: the canonical options text that made them, and how many rows it made.</summary>
 /// <param name="Number">1-based number, in order of first appearance among the rows.</param>
-/// <param name="OptionsText">The canonical options text (<see cref="ResultIdentity.CanonicalOptions"/>); null for rows that do not record it.</param>
+/// <param name="OptionsText">The canonical options text (<see cref="JunctionFit.Fitting.FitOptionsText.Canonical"/>); null for rows that do not record it.</param>
 /// <param name="OptionsHash">SHA-256 of the text (the database key's options hash); null when the text is unknown.</param>
 /// <param name="Rows">Rows made with it.</param>
 /// <param name="DistinctLines">The <c>name=value</c> lines of the text that not every set of the rows has: what tells it apart.</param>

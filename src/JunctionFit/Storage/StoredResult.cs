@@ -81,7 +81,7 @@ public sealed record StoredResult
     /// <summary>A row for <paramref name="result"/> of data with hash <paramref name="fileSha256"/>, fitted under <paramref name="canonicalOptions"/>.</summary>
     /// <param name="result">The fit (its model is the key's model).</param>
     /// <param name="fileSha256">From <see cref="ResultIdentity.FileSha256(string)"/>.</param>
-    /// <param name="canonicalOptions">From <see cref="ResultIdentity.CanonicalOptions"/>.</param>
+    /// <param name="canonicalOptions">From <see cref="JunctionFit.Fitting.FitOptionsText.Canonical"/>.</param>
     /// <param name="run">The run.</param>
     /// <returns>The row.</returns>
     /// <exception cref="ArgumentNullException">An argument is null.</exception>

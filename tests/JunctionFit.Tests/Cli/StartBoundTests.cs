@@ -84,9 +84,9 @@ public class StartBoundTests
             Bounds = ImmutableDictionary<ParameterKey, ParameterBounds>.Empty.Add(ParameterKey.BarrierHeight,
                 new ParameterBounds(ParameterKey.BarrierHeight.FromDisplay(1.5), ParameterKey.BarrierHeight.FromDisplay(2.5))),
         };
-        string text = ResultIdentity.CanonicalOptions(options);
+        string text = FitOptionsText.Canonical(options);
         Assert.Contains("\nfixed.thickness_nm=1.6", text, StringComparison.Ordinal);
         Assert.Contains("\nbound.barrier_height_eV=1.5:2.5", text, StringComparison.Ordinal);
-        Assert.NotEqual(ResultIdentity.OptionsHash(text), ResultIdentity.OptionsHash(ResultIdentity.CanonicalOptions(FitOptions.Default)));
+        Assert.NotEqual(ResultIdentity.OptionsHash(text), ResultIdentity.OptionsHash(FitOptionsText.Canonical(FitOptions.Default)));
     }
 }

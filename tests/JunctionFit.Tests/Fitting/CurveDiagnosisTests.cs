@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using JunctionFit.Common;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
 using JunctionFit.Physics;
@@ -84,7 +85,7 @@ public class CurveDiagnosisTests
         var r = JunctionFitter.Fit(curve, Model, AreaFixed(100));
         Assert.NotEqual(FitStatus.Ok, r.Status);
         Assert.Contains("units", r.Diagnoses);
-        Assert.Contains(r.Warnings, w => w.Contains("--current-unit", StringComparison.Ordinal));
+        Assert.Contains(r.Warnings, w => Remedy.Find(w).Any(m => m.Kind == RemedyKind.CurrentUnit));
     }
 
     [Fact]
@@ -94,7 +95,7 @@ public class CurveDiagnosisTests
         var curve = new IvCurve("mV.csv", [.. c.VoltageV.Select(x => x * 800)], c.CurrentA);
         var r = JunctionFitter.Fit(curve, Model, AreaFixed(100));
         Assert.NotEqual(FitStatus.Ok, r.Status);
-        Assert.Contains(r.Warnings, w => w.Contains("--voltage-unit mV", StringComparison.Ordinal) && w.Contains("800 V", StringComparison.Ordinal));
+        Assert.Contains(r.Warnings, w => Remedy.Find(w).Contains(new Remedy(RemedyKind.VoltageUnit, "mV")) && w.Contains("800 V", StringComparison.Ordinal));
     }
 
     [Fact]
@@ -140,7 +141,7 @@ public class CurveDiagnosisTests
         var dPhi = r.Hysteresis.Differences.Single(d => d.Key == "barrier_height_eV");
         var (lo, hi) = dPhi.Interval95!.Value;
         Assert.InRange(-0.1, lo, hi); // rising minus falling = 2.0 − 2.1
-        Assert.Contains(r.Warnings, w => w.StartsWith("hysteresis", StringComparison.Ordinal) && w.Contains("--sweep-direction", StringComparison.Ordinal));
+        Assert.Contains(r.Warnings, w => w.StartsWith("hysteresis", StringComparison.Ordinal) && Remedy.Find(w).Any(m => m.Kind == RemedyKind.SweepDirection));
     }
 
     [Fact]
@@ -198,7 +199,7 @@ public class CurveDiagnosisTests
         if (expected == FitStatus.PoorFit)
         {
             Assert.StartsWith("misfit", r.StatusReason, StringComparison.Ordinal);
-            Assert.Contains("--misfit-tolerance", r.StatusReason, StringComparison.Ordinal);
+            Assert.Contains(new Remedy(RemedyKind.MisfitTolerance), Remedy.Find(r.StatusReason!));
         }
         else
         {

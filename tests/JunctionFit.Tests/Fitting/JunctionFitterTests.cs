@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using JunctionFit.Common;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
 using JunctionFit.Physics;
@@ -113,7 +114,7 @@ public class IdentifiabilityWarningTests
         var result = JunctionFitter.Fit(curve, Model, FitOptions.Default);
         var warning = Assert.Single(result.Warnings, w => w.StartsWith("not identifiable", StringComparison.Ordinal));
         Assert.Contains("effective area", warning, StringComparison.Ordinal);
-        Assert.Contains("--area", warning, StringComparison.Ordinal);
+        Assert.Contains(Remedy.GiveArea, Remedy.Find(warning));
     }
 
     [Fact]

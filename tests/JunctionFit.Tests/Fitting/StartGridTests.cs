@@ -1,6 +1,7 @@
 using CsCheck;
 using JunctionFit.Fitting;
 using JunctionFit.Physics;
+using JunctionFit.Physics.Numerics;
 using Xunit;
 
 namespace JunctionFit.Tests.Fitting;

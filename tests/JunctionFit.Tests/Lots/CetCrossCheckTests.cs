@@ -1,3 +1,5 @@
+using JunctionFit.Common;
+using JunctionFit.Import;
 using JunctionFit.Lots;
 using JunctionFit.Physics;
 using JunctionFit.Results;
@@ -67,7 +69,7 @@ public class CetCrossCheckTests
 
         var u = Assert.Single(r.UnmatchedCet);
         Assert.Equal("d.csv", u.Measurement.Source);
-        Assert.Contains("--path-pattern", u.Reason, StringComparison.Ordinal);
+        Assert.Contains(new Remedy(RemedyKind.PathPattern), Remedy.Find(u.Reason));
     }
 
     [Theory]

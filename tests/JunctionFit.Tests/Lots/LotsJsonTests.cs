@@ -1,4 +1,5 @@
 using System.Text.Json;
+using JunctionFit.Import;
 using JunctionFit.Lots;
 using JunctionFit.Reporting;
 using JunctionFit.Results;

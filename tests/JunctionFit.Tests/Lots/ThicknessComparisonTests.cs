@@ -1,3 +1,4 @@
+using JunctionFit.Import;
 using JunctionFit.Lots;
 using JunctionFit.Results;
 using MathNet.Numerics.Distributions;

@@ -142,6 +142,8 @@ public class ModelConstantsTests
         Assert.Equal(11.7, stack.SiliconPermittivity);
         Assert.Equal(3.9, stack.OxidePermittivity);
         Assert.Equal(4.05, MosElectrostatics.SiliconElectronAffinityEv);
+        // Metal gate default 4.6 eV: a mid-gap metal such as TiN, 4.5-4.7 eV (from memory); docs/models.md names it.
+        Assert.Equal(4.6, stack.MetalWorkFunctionEv);
     }
 
     [Fact]

@@ -41,15 +41,15 @@ public sealed class DatabaseIdentityTests
             FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.MassRatio, 0.4).Add(ParameterKey.Area, 1e-10),
             StartValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Thickness, 1.5),
         };
-        Assert.Equal(ResultIdentity.CanonicalOptions(a), ResultIdentity.CanonicalOptions(b));
-        Assert.StartsWith(ResultIdentity.OptionsFormat + "\n", ResultIdentity.CanonicalOptions(a), StringComparison.Ordinal);
-        Assert.Contains("\nfixed.area_m2=1E-10\n", ResultIdentity.CanonicalOptions(a), StringComparison.Ordinal);
+        Assert.Equal(FitOptionsText.Canonical(a), FitOptionsText.Canonical(b));
+        Assert.StartsWith(FitOptionsText.Format + "\n", FitOptionsText.Canonical(a), StringComparison.Ordinal);
+        Assert.Contains("\nfixed.area_m2=1E-10\n", FitOptionsText.Canonical(a), StringComparison.Ordinal);
     }
 
     [Fact]
     public void CanonicalOptions_AnyOptionChanged_DifferentHash()
     {
-        string baseline = ResultIdentity.OptionsHash(ResultIdentity.CanonicalOptions(FitOptions.Default));
+        string baseline = ResultIdentity.OptionsHash(FitOptionsText.Canonical(FitOptions.Default));
         FitOptions[] changed =
         [
             FitOptions.Default with { FixedValues = ImmutableDictionary<ParameterKey, double>.Empty.Add(ParameterKey.Area, 1e-10) },
@@ -73,17 +73,17 @@ public sealed class DatabaseIdentityTests
             FitOptions.Default with { Solver = FitOptions.DefaultSolver with { GradientTolerance = 1e-8 } },
             FitOptions.Default with { Solver = FitOptions.DefaultSolver with { InitialStepFactor = 1.0 } },
         ];
-        var hashes = changed.Select(o => ResultIdentity.OptionsHash(ResultIdentity.CanonicalOptions(o))).ToList();
+        var hashes = changed.Select(o => ResultIdentity.OptionsHash(FitOptionsText.Canonical(o))).ToList();
         Assert.DoesNotContain(baseline, hashes);
         Assert.Equal(hashes.Count, hashes.Distinct().Count());
-        Assert.NotEqual(baseline, ResultIdentity.OptionsHash(ResultIdentity.CanonicalOptions(FitOptions.Default, [new("temperature_K", "300")])));
+        Assert.NotEqual(baseline, ResultIdentity.OptionsHash(FitOptionsText.Canonical(FitOptions.Default, [new("temperature_K", "300")])));
     }
 
     [Fact]
     public void CanonicalOptions_OptionTypesGainAProperty_ThisTestNamesIt()
     {
         // When FitOptions or the solver options gain a property, decide whether it changes a fit's outcome; if it does,
-        // write it in ResultIdentity.CanonicalOptions (stored results then count as stale), then list it here.
+        // write it in FitOptionsText.Canonical (stored results then count as stale), then list it here.
         string[] fit = ["BiasWindowHighV", "BiasWindowLowV", "Bounds", "ComplianceA", "DirectionFits", "FixAreaFromMetadata", "FixedValues", "FreedKeys",
             "KeepSettling", "MisfitTolerance", "NoiseFloorA", "RelativeNoise", "Solver", "StartValues", "Starts", "SweepDirection"];
         string[] solver = ["GradientTolerance", "InitialStepFactor", "MaxFunctionEvaluations", "MaxIterations", "RelativeReductionTolerance", "StepTolerance"];
@@ -94,9 +94,9 @@ public sealed class DatabaseIdentityTests
     [Fact]
     public void CanonicalOptions_ExtraNameWithEquals_Throws()
     {
-        Assert.Throws<ArgumentException>(() => ResultIdentity.CanonicalOptions(FitOptions.Default, [new("a=b", "1")]));
-        Assert.Throws<ArgumentException>(() => ResultIdentity.CanonicalOptions(FitOptions.Default, [new("a", "1\n2")]));
-        Assert.Throws<ArgumentException>(() => ResultIdentity.CanonicalOptions(FitOptions.Default, [new("a", "1"), new("a", "2")]));
+        Assert.Throws<ArgumentException>(() => FitOptionsText.Canonical(FitOptions.Default, [new("a=b", "1")]));
+        Assert.Throws<ArgumentException>(() => FitOptionsText.Canonical(FitOptions.Default, [new("a", "1\n2")]));
+        Assert.Throws<ArgumentException>(() => FitOptionsText.Canonical(FitOptions.Default, [new("a", "1"), new("a", "2")]));
     }
 
     [Fact]

@@ -6,25 +6,27 @@ using JunctionFit.Physics;
 using JunctionFit.Reporting;
 using JunctionFit.Results;
 
-namespace JunctionFit.Cli.Commands;
+namespace JunctionFit.Batch;
 
-/// <summary>The drift and thickness analyses as the commands and the demo run them: compute, write PNGs, describe.</summary>
-internal static class LotAnalyses
+/// <summary>
+/// The lot analyses as the commands and the demo run them: compute (Lots), write the PNGs (Reporting), describe in a report
+/// section; the thickness analysis reads each die's file again for its consistency refit. Messages name no command-line
+/// option: the caller words them.
+/// </summary>
+public static class LotAnalyses
 {
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
     /// <summary>Runs the drift analysis, writes one trend chart per parameter into <paramref name="outDir"/>, returns the result and a report section.</summary>
+    /// <param name="rows">Result rows of every lot.</param>
+    /// <param name="options">Reference lot(s) and thresholds.</param>
+    /// <param name="outDir">Folder of the trend charts (created when missing).</param>
+    /// <returns>The drift result, its report section and the paths of the charts written.</returns>
+    /// <exception cref="ArgumentException">The options do not fit the rows (for example an unknown reference lot).</exception>
+    /// <exception cref="IOException">A chart could not be written.</exception>
     public static (DriftResult Result, HtmlReportSection Section, List<string> Charts) Drift(IReadOnlyList<ResultRow> rows, DriftOptions options, string outDir)
     {
-        DriftResult result;
-        try
-        {
-            result = DriftAnalysis.Compute(rows, options);
-        }
-        catch (ArgumentException e)
-        {
-            throw new UsageException($"drift: {CliApp.WithoutParameterName(e.Message)}");
-        }
+        var result = DriftAnalysis.Compute(rows, options);
         Directory.CreateDirectory(outDir);
         var images = new List<HtmlImage>();
         var charts = new List<string>();
@@ -66,7 +68,17 @@ internal static class LotAnalyses
     /// Compares electrical and ellipsometric thickness, writes the Bland–Altman PNG, and for each wafer refits its good dies
     /// with d fixed at the ellipsometric value to test (F-test) whether the fits get significantly worse.
     /// </summary>
-    public static (ThicknessComparisonResult Result, List<WaferConsistency> Wafers, HtmlReportSection Section, string? Plot) Thickness(
+    /// <param name="rows">Result rows; their file paths are read again for the refit.</param>
+    /// <param name="ellipsometry">Ellipsometric thicknesses per wafer or site.</param>
+    /// <param name="plan">The fit plan the rows were fitted with.</param>
+    /// <param name="readOptions">How the files are read.</param>
+    /// <param name="outDir">Folder of the Bland–Altman plot (created when missing).</param>
+    /// <param name="jobs">Parallel refits.</param>
+    /// <param name="toleranceNm">Practical tolerance on the thickness difference, nm.</param>
+    /// <returns>The comparison, the per-wafer refit tests, the report section, the plot path (null without agreement
+    /// statistics) and the number of dies whose file could not be read for the refit.</returns>
+    /// <exception cref="IOException">The plot could not be written.</exception>
+    public static (ThicknessComparisonResult Result, List<WaferConsistency> Wafers, HtmlReportSection Section, string? Plot, int RefitFailures) Thickness(
         IReadOnlyList<ResultRow> rows, IReadOnlyList<EllipsometryRow> ellipsometry, FitPlan plan, IvReadOptions readOptions, string outDir, int jobs,
         double toleranceNm = DefaultThicknessToleranceNm)
     {
@@ -80,7 +92,7 @@ internal static class LotAnalyses
             plotPath = Path.Combine(outDir, BlandAltmanRenderer.DefaultFileName);
             Common.AtomicFile.WriteAllBytes(plotPath, png);
         }
-        var wafers = WaferConsistencyTests(rows, ellipsometry, plan, readOptions, jobs, toleranceNm);
+        var (wafers, refitFailures) = WaferConsistencyTests(rows, ellipsometry, plan, readOptions, jobs, toleranceNm);
         var paragraphs = new List<string>();
         if (comparison.Agreement is { } a)
         {
@@ -117,67 +129,26 @@ internal static class LotAnalyses
             ],
             Images = png is null ? [] : [new HtmlImage("Bland–Altman: difference against mean, with bias and 95 % limits of agreement", png)],
         };
-        return (comparison, wafers, section, plotPath);
-    }
-
-    /// <summary>
-    /// Reads the C–V files of <c>thickness --cv</c> (files or folders), places each on a wafer by its <c># lot:</c> / <c># wafer:</c>
-    /// lines or <paramref name="pathPattern"/>, and computes CET = ε_ox ε₀ A / C_max. Prints <c>path:line: reason</c> and returns null
-    /// when a file cannot be read or states no area.
-    /// </summary>
-    public static List<CetMeasurement>? ReadCet(CliContext context, IReadOnlyList<string> paths, string? pathPattern, double? areaM2, double oxidePermittivity)
-    {
-        var (files, missing) = InputFiles.Expand(paths);
-        foreach (string m in missing) context.Error.WriteLine($"{m}:0: --cv: no such file or folder");
-        if (missing.Count > 0) return null;
-        if (files.Count == 0)
-        {
-            context.Error.WriteLine($"{paths[0]}:0: --cv: no C-V files in this folder (looked for {string.Join(", ", InputFiles.Extensions)})");
-            return null;
-        }
-        var list = new List<CetMeasurement>(files.Count);
-        bool ok = true;
-        foreach (string file in files)
-        {
-            try
-            {
-                var curve = CvFileReader.Read(file, pathPattern);
-                double area = areaM2 ?? curve.AreaM2
-                    ?? throw new IvFormatException(file, 0, "the C-V file states no area ('# area: 10000 um2'); give --cv-area");
-                var cv = Physics.CvAnalysis.Analyse(curve.VoltageV.AsSpan(), curve.CapacitanceF.AsSpan(), area, oxidePermittivity, curve.TemperatureK ?? 300.0);
-                foreach (string note in curve.Notes) context.Error.WriteLine($"{file}:0: {note}");
-                list.Add(new CetMeasurement(file, curve.Lot, curve.Wafer, cv.CapacitanceEquivalentThicknessNm, cv.Saturated));
-            }
-            catch (IvFormatException e)
-            {
-                context.Error.WriteLine(e.Message);
-                ok = false;
-            }
-            catch (ArgumentException e)
-            {
-                context.Error.WriteLine($"{file}:0: {CliApp.WithoutParameterName(e.Message)}");
-                ok = false;
-            }
-        }
-        return ok ? list : null;
+        return (comparison, wafers, section, plotPath, refitFailures);
     }
 
     /// <summary>
     /// The per-wafer table of electrical t_ox, ellipsometry and CET with the CET flag beside the ellipsometry refit flag of
     /// <paramref name="wafers"/>; returns the result and a report section.
     /// </summary>
+    /// <param name="rows">Result rows.</param>
+    /// <param name="ellipsometry">Ellipsometric thicknesses.</param>
+    /// <param name="cet">CET of the wafers' C–V capacitors.</param>
+    /// <param name="wafers">The ellipsometry refit tests of <see cref="Thickness"/>.</param>
+    /// <param name="lowerNm">Lowest expected CET − t_ox, nm.</param>
+    /// <param name="upperNm">Highest expected CET − t_ox, nm.</param>
+    /// <param name="oxidePermittivity">Relative permittivity of the oxide used for CET.</param>
+    /// <returns>The cross-check and its report section.</returns>
+    /// <exception cref="ArgumentOutOfRangeException">The expected range is empty or not finite.</exception>
     public static (CetCrossCheckResult Result, HtmlReportSection Section) CetCheck(IReadOnlyList<ResultRow> rows, IReadOnlyList<EllipsometryRow> ellipsometry,
         IReadOnlyList<CetMeasurement> cet, IReadOnlyList<WaferConsistency> wafers, double lowerNm, double upperNm, double oxidePermittivity = 3.9)
     {
-        CetCrossCheckResult result;
-        try
-        {
-            result = CetCrossCheck.Compare(rows, ellipsometry, cet, lowerNm, upperNm);
-        }
-        catch (ArgumentOutOfRangeException e)
-        {
-            throw new UsageException($"--cet-range: {CliApp.WithoutParameterName(e.Message)}");
-        }
+        var result = CetCrossCheck.Compare(rows, ellipsometry, cet, lowerNm, upperNm);
         var flags = EllipsometryFlags(wafers);
         var cells = result.Wafers.Select(w => (IReadOnlyList<string>)[
             w.Lot, w.Wafer, w.Dies.ToString(Inv), Num(w.ElectricalMedianNm), Num(w.ElectricalSpreadNm), Num(w.EllipsometricNm),
@@ -207,17 +178,23 @@ internal static class LotAnalyses
     }
 
     /// <summary>The ellipsometry refit flag of a wafer (null when the wafer was not tested).</summary>
-    internal static Func<string, string, bool?> EllipsometryFlags(IReadOnlyList<WaferConsistency> wafers)
+    /// <param name="wafers">The refit tests.</param>
+    /// <returns>A lookup from (lot, wafer) to the flag.</returns>
+    public static Func<string, string, bool?> EllipsometryFlags(IReadOnlyList<WaferConsistency> wafers)
     {
         var map = new Dictionary<(string, string), bool>();
         foreach (var w in wafers) if (w.Test is not null) map.TryAdd((w.Lot, w.Wafer), w.Flagged);
         return (lot, wafer) => map.TryGetValue((lot, wafer), out bool f) ? f : null;
     }
 
-    /// <summary>Dies whose file could not be read for the consistency refit in the last run (exit code 1 when any).</summary>
-    internal static int RefitFailures { get; set; }
-
-    internal sealed record WaferConsistency(string Lot, string Wafer, double EllipsometricNm, int Dies, ConsistencyTest? Test, string Note)
+    /// <summary>The ellipsometry consistency refit of one wafer.</summary>
+    /// <param name="Lot">Lot.</param>
+    /// <param name="Wafer">Wafer.</param>
+    /// <param name="EllipsometricNm">The wafer's ellipsometric thickness, nm.</param>
+    /// <param name="Dies">Dies refitted.</param>
+    /// <param name="Test">The F-test; null when no die could be refitted.</param>
+    /// <param name="Note">The verdict in words, with any die that could not be read.</param>
+    public sealed record WaferConsistency(string Lot, string Wafer, double EllipsometricNm, int Dies, ConsistencyTest? Test, string Note)
     {
         /// <summary>Median electrical thickness of the wafer's good dies, nm.</summary>
         public double? ElectricalMedianNm { get; init; }
@@ -232,10 +209,11 @@ internal static class LotAnalyses
     /// </summary>
     public const double DefaultThicknessToleranceNm = 0.1;
 
-    private static List<WaferConsistency> WaferConsistencyTests(IReadOnlyList<ResultRow> rows, IReadOnlyList<EllipsometryRow> ellipsometry,
+    private static (List<WaferConsistency> Wafers, int RefitFailures) WaferConsistencyTests(IReadOnlyList<ResultRow> rows, IReadOnlyList<EllipsometryRow> ellipsometry,
         FitPlan plan, IvReadOptions readOptions, int jobs, double toleranceNm)
     {
         var list = new List<WaferConsistency>();
+        int refitFailures = 0;
         foreach (var wafer in ellipsometry.GroupBy(e => (e.Lot, e.Wafer)))
         {
             var perWafer = wafer.Where(e => !e.IsSite).ToList();
@@ -263,7 +241,7 @@ internal static class LotAnalyses
                     lock (sync)
                     {
                         notes.Add($"{die.File}: not refitted ({e.Message}); paths in results are as batch was given them — run thickness from the folder batch ran in");
-                        RefitFailures++;
+                        refitFailures++;
                     }
                     return;
                 }
@@ -301,7 +279,7 @@ internal static class LotAnalyses
                 Flagged = flagged,
             });
         }
-        return list;
+        return (list, refitFailures);
     }
 
     /// <summary>Robust z above which a good die is listed as out of family in its lot (common practice, no source).</summary>
@@ -312,7 +290,11 @@ internal static class LotAnalyses
     /// (scaled MAD) from their lot's median. A parallel leak or a series resistance can be absorbed by a thinner, higher
     /// barrier with a fit that looks perfect; against its lot such a die stands out.
     /// </summary>
-    public static (List<(ResultRow Row, string Key, double Value, double Median, double Z)> Outliers, HtmlReportSection Section) Outliers(IReadOnlyList<ResultRow> rows)
+    /// <param name="rows">Result rows of one or more lots.</param>
+    /// <param name="refitAdvice">How to refit such a die, worded by the caller (the options that free a leak or a series
+    /// resistance), shown in the section.</param>
+    /// <returns>The out-of-family dies with parameter, value, lot median and robust z; and the report section.</returns>
+    public static (List<(ResultRow Row, string Key, double Value, double Median, double Z)> Outliers, HtmlReportSection Section) Outliers(IReadOnlyList<ResultRow> rows, string refitAdvice)
     {
         var found = new List<(ResultRow Row, string Key, double Value, double Median, double Z)>();
         foreach (var lot in rows.Where(r => r.IsGood && r.Lot is not null).GroupBy(r => r.Lot!))
@@ -337,7 +319,7 @@ internal static class LotAnalyses
             [
                 $"Good fits whose barrier height or thickness lies more than {OutlierRobustZ} robust standard deviations (scaled MAD) from their lot's median. " +
                 "A parallel leak path or a series resistance can be absorbed by a thinner, higher barrier with residuals that look clean; check these dies " +
-                "(fit them with --free leakage-conductance or --free series-resistance, or look at the device).",
+                $"({refitAdvice}, or look at the device).",
                 found.Count == 0 ? "No die is out of family." : $"{found.Select(o => o.Row.File).Distinct().Count()} die(s) out of family.",
             ],
             Tables = found.Count == 0 ? [] : [new HtmlTable("Out of family", ["File", "Lot", "Wafer", "Die", "Parameter", "Value", "Lot median", "Robust z"], cells)],
@@ -345,8 +327,13 @@ internal static class LotAnalyses
         return (found, section);
     }
 
-    internal static string Num(double? v) => v is double x && double.IsFinite(x) ? (x == 0 ? 0.0 : Math.Round(x, 4) == 0 ? 0.0 : x).ToString("0.####", Inv) : "";
+    /// <summary>A number for people: at most four decimals, no "-0", empty when unknown or not finite.</summary>
+    /// <param name="v">The value.</param>
+    /// <returns>Invariant text.</returns>
+    public static string Num(double? v) => v is double x && double.IsFinite(x) ? (x == 0 ? 0.0 : Math.Round(x, 4) == 0 ? 0.0 : x).ToString("0.####", Inv) : "";
 
     /// <summary>A p-value for people: "&lt; 1e-16" below double resolution, else three significant digits.</summary>
-    internal static string PValueText(double p) => p < 1e-16 ? "< 1e-16" : p.ToString("G3", Inv);
+    /// <param name="p">The p-value.</param>
+    /// <returns>Invariant text.</returns>
+    public static string PValueText(double p) => p < 1e-16 ? "< 1e-16" : p.ToString("G3", Inv);
 }

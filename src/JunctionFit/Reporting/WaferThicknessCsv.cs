@@ -2,7 +2,7 @@ using System.Text;
 using JunctionFit.Common;
 using JunctionFit.Lots;
 
-namespace JunctionFit.Storage;
+namespace JunctionFit.Reporting;
 
 /// <summary>
 /// The per-wafer thickness table of <c>thickness … --cv</c>, <c>thickness-wafers.csv</c>: columns
@@ -24,7 +24,7 @@ public static class WaferThicknessCsv
     {
         ArgumentNullException.ThrowIfNull(result);
         var sb = new StringBuilder();
-        CsvText.WriteRecord(sb,
+        CsvFields.WriteRecord(sb,
         [
             "lot", "wafer", "dies", "thickness_nm_median", "thickness_nm_spread", "ellipsometry_nm", "cet_nm", "cet_files", "cet_upper_bound",
             "thickness_minus_ellipsometry_nm", "cet_minus_thickness_nm", "ellipsometry_flagged", "cet_flagged", "note",
@@ -32,11 +32,11 @@ public static class WaferThicknessCsv
         foreach (var w in result.Wafers)
         {
             bool? ell = ellipsometryFlagged?.Invoke(w.Lot, w.Wafer);
-            CsvText.WriteRecord(sb,
+            CsvFields.WriteRecord(sb,
             [
-                w.Lot, w.Wafer, CsvText.Integer(w.Dies), CsvText.Number(w.ElectricalMedianNm), CsvText.Number(w.ElectricalSpreadNm),
-                CsvText.Number(w.EllipsometricNm), CsvText.Number(w.CetNm), CsvText.Integer(w.CetFiles), w.CetIsUpperBound ? "true" : "false",
-                CsvText.Number(w.ElectricalMinusEllipsometryNm), CsvText.Number(w.CetMinusElectricalNm),
+                w.Lot, w.Wafer, CsvFields.Integer(w.Dies), CsvFields.Number(w.ElectricalMedianNm), CsvFields.Number(w.ElectricalSpreadNm),
+                CsvFields.Number(w.EllipsometricNm), CsvFields.Number(w.CetNm), CsvFields.Integer(w.CetFiles), w.CetIsUpperBound ? "true" : "false",
+                CsvFields.Number(w.ElectricalMinusEllipsometryNm), CsvFields.Number(w.CetMinusElectricalNm),
                 ell is bool b ? (b ? "true" : "false") : "", w.CetFlagged ? "true" : "false", w.Note,
             ]);
         }

@@ -3,7 +3,7 @@ using System.Text;
 using JunctionFit.Common;
 using JunctionFit.Lots;
 
-namespace JunctionFit.Storage;
+namespace JunctionFit.Reporting;
 
 /// <summary>
 /// The per-lot summary table, <c>OUTDIR/lot-summary.csv</c>: columns <c>lot, dies, ok, poor_fit, failed, yield</c>
@@ -26,22 +26,22 @@ public static class LotSummaryCsv
         var sb = new StringBuilder();
         var header = new List<string> { "lot", "dies", "ok", "poor_fit", "failed", "yield" };
         foreach (string k in keys) header.AddRange([k + "_n", k + "_median", k + "_spread"]);
-        CsvText.WriteRecord(sb, header);
+        CsvFields.WriteRecord(sb, header);
         foreach (var lot in lots)
         {
             var fields = new List<string>
             {
-                lot.Lot, CsvText.Integer(lot.Total), CsvText.Integer(lot.Ok), CsvText.Integer(lot.PoorFit), CsvText.Integer(lot.Failed),
+                lot.Lot, CsvFields.Integer(lot.Total), CsvFields.Integer(lot.Ok), CsvFields.Integer(lot.PoorFit), CsvFields.Integer(lot.Failed),
                 lot.Yield.ToString("0.####", CultureInfo.InvariantCulture),
             };
             foreach (string k in keys)
             {
                 var p = lot.Find(k);
-                fields.Add(CsvText.Integer(p?.GoodCount ?? 0));
-                fields.Add(CsvText.Number(p?.Median));
-                fields.Add(CsvText.Number(p?.RobustSpread));
+                fields.Add(CsvFields.Integer(p?.GoodCount ?? 0));
+                fields.Add(CsvFields.Number(p?.Median));
+                fields.Add(CsvFields.Number(p?.RobustSpread));
             }
-            CsvText.WriteRecord(sb, fields);
+            CsvFields.WriteRecord(sb, fields);
         }
         return sb.ToString();
     }

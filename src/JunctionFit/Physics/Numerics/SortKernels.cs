@@ -1,4 +1,4 @@
-namespace JunctionFit.Fitting;
+namespace JunctionFit.Physics.Numerics;
 
 /// <summary>
 /// Sorting and order statistics of doubles for the per-curve statistics (typical step, medians, quantisation).
