@@ -1,12 +1,9 @@
 using System.CommandLine;
 using System.Globalization;
-using System.Text;
 using JunctionFit.Batch;
 using JunctionFit.Common;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
-using JunctionFit.Lots;
-using JunctionFit.Physics;
 using JunctionFit.Reporting;
 using JunctionFit.Results;
 using JunctionFit.Storage;
@@ -117,7 +114,7 @@ internal static class BatchCommand
         var plotNames = new HashSet<string>(StringComparer.Ordinal);
         int unreadable = 0, notOk = 0, done = 0;
         var progress = new Progress(context.Error, files.Count);
-        using var store = s.Database is null ? null : OpenStore(context, s.Database);
+        using var store = s.Database is null ? null : OpenStore(s.Database);
         string optionsText = FitOptionsText.Canonical(s.Plan.Options, s.IdentityExtras);
         string optionsHash = ResultIdentity.OptionsHash(optionsText);
         var fileKeys = new ResultKey?[files.Count];
@@ -215,7 +212,7 @@ internal static class BatchCommand
             else
             {
                 work.Run(k => fileKeys[k] is ResultKey key && stored.ContainsKey(key), Process, s.Jobs, Consume, dbWriter!.Flush,
-                    () => OpenStore(context, s.Database!));
+                    () => OpenStore(s.Database!));
                 if (work.FromOthers > 0 || work.TakenOver > 0)
                 {
                     context.Error.WriteLine($"junctionfit batch: worker {worker.FittedBy}: {work.Claimed.Count(c => c)} files fitted here, " +
@@ -295,7 +292,7 @@ internal static class BatchCommand
     /// Opens a database for a command that only reads it (results, drift, thickness): a SQLite file that does not exist is
     /// a usage error naming the path, and nothing is created (a mistyped path must not leave an empty database behind).
     /// </summary>
-    internal static IResultStore OpenExistingStore(CliContext context, string database)
+    internal static IResultStore OpenExistingStore(string database)
     {
         if (!string.IsNullOrWhiteSpace(database) && ResultStore.KindOf(database) == ResultStoreKind.Sqlite && !File.Exists(database))
         {
@@ -303,10 +300,10 @@ internal static class BatchCommand
                 ? $"--db: {database} is a folder, not a results database file"
                 : $"--db: no results database at {Path.GetFullPath(database)} (reading commands never create one; give the file that batch wrote)");
         }
-        return OpenStore(context, database);
+        return OpenStore(database);
     }
 
-    internal static IResultStore OpenStore(CliContext context, string database)
+    internal static IResultStore OpenStore(string database)
     {
         try
         {

@@ -1,6 +1,5 @@
 using System.CommandLine;
 using JunctionFit.Batch;
-using JunctionFit.Fitting;
 using JunctionFit.Import;
 using JunctionFit.Lots;
 using JunctionFit.Reporting;

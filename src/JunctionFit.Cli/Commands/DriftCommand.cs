@@ -39,16 +39,24 @@ internal static class DriftCommand
             }
             var rows = ReadResults(context, paths);
             if (rows is null) return ExitCodes.UsageOrInput;
-            if (database is not null) rows = rows.Value.AddRange(ReadDatabase(context, database, parse.GetValue(lotFilter) ?? []));
+            if (database is not null) rows = rows.Value.AddRange(ReadDatabase(database, parse.GetValue(lotFilter) ?? []));
             var pooled = OptionSetChoice.Pool("drift", rows.Value, parse.GetValue(optionSet));
             var options = new DriftOptions(parse.GetValue(reference) ?? []);
             try
             {
-                options = options with { Alpha = parse.GetValue(alpha), MinimumGoodDies = parse.GetValue(minDies) };
+                options = options with { Alpha = parse.GetValue(alpha) };
             }
             catch (ArgumentOutOfRangeException e)
             {
-                throw new UsageException(e.Message);
+                throw UsageException.ForOption("--alpha", e);
+            }
+            try
+            {
+                options = options with { MinimumGoodDies = parse.GetValue(minDies) };
+            }
+            catch (ArgumentOutOfRangeException e)
+            {
+                throw UsageException.ForOption("--min-dies", e);
             }
             var thresholds = options.Thresholds;
             foreach (string item in parse.GetValue(threshold) ?? [])
@@ -86,9 +94,9 @@ internal static class DriftCommand
     }
 
     /// <summary>Rows stored in a results database (all lots, or the given ones).</summary>
-    internal static IEnumerable<ResultRow> ReadDatabase(CliContext context, string database, IReadOnlyList<string> lots)
+    internal static IEnumerable<ResultRow> ReadDatabase(string database, IReadOnlyList<string> lots)
     {
-        using var store = BatchCommand.OpenExistingStore(context, database);
+        using var store = BatchCommand.OpenExistingStore(database);
         var stored = lots.Count == 0 ? store.Query() : lots.SelectMany(l => store.Query(lot: l)).ToList();
         return stored.Select(r => r.ToRow()).ToList();
     }
@@ -176,7 +184,7 @@ internal static class ThicknessCommand
             string resultsPath = database is null ? given[0] : Path.Combine(Directory.GetCurrentDirectory(), "results.csv");
             var read0 = database is null
                 ? DriftCommand.ReadResults(context, [resultsPath])
-                : [.. DriftCommand.ReadDatabase(context, database, [])];
+                : [.. DriftCommand.ReadDatabase(database, [])];
             if (read0 is null) return ExitCodes.UsageOrInput;
             ImmutableArray<ResultRow>? rows = [.. OptionSetChoice.Pool("thickness", read0.Value, parse.GetValue(optionSet))];
             ImmutableArray<EllipsometryRow> ell;

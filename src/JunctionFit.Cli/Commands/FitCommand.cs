@@ -3,8 +3,6 @@ using System.CommandLine;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
 using JunctionFit.Physics;
-using JunctionFit.Reporting;
-using JunctionFit.Results;
 
 namespace JunctionFit.Cli.Commands;
 

@@ -42,58 +42,64 @@ internal sealed class ReadOptionSet
                                  $"dec={o.DecimalComma};seg={(o.Segments is { } s ? string.Join(",", s) : "")};compliance={o.MaskCompliance};pattern={o.PathPattern}");
     }
 
+    /// <summary>The import options the user gave; a value the importer refuses is a usage error naming its option.</summary>
+    /// <exception cref="UsageException">A value is not usable.</exception>
     public IvReadOptions Build(ParseResult parse)
     {
+        var options = IvReadOptions.Default with { MaskCompliance = !parse.GetValue(KeepCompliance) };
+        options = Set(options, VoltageColumn, parse, (o, v) => o with { VoltageColumn = v });
+        options = Set(options, CurrentColumn, parse, (o, v) => o with { CurrentColumn = v });
+        options = Set(options, VoltageUnit, parse, (o, v) => o with { VoltageUnit = v });
+        options = Set(options, CurrentUnit, parse, (o, v) => o with { CurrentUnit = v });
+        options = Set(options, PathPattern, parse, (o, v) => o with { PathPattern = v });
+        if (parse.GetValue(Delimiter) is string d)
+        {
+            char c = d.ToLowerInvariant() switch
+            {
+                "comma" or "," => ',',
+                "semicolon" or ";" => ';',
+                "tab" or "\\t" or "\t" => '\t',
+                "space" or " " => ' ',
+                "pipe" or "|" => '|',
+                _ => throw new UsageException($"--delimiter: '{d}' is not one of comma, semicolon, tab, space, pipe"),
+            };
+            options = options with { Delimiter = c };
+        }
+        if (parse.GetValue(Decimal) is string dec)
+        {
+            bool? comma = dec.ToLowerInvariant() switch
+            {
+                "comma" or "," => true,
+                "point" or "." or "dot" => false,
+                "auto" => null,
+                _ => throw new UsageException($"--decimal: '{dec}' is not one of point, comma, auto"),
+            };
+            options = options with { DecimalComma = comma };
+        }
+        if (parse.GetValue(Segments) is string seg)
+        {
+            var list = ImmutableArray.CreateBuilder<int>();
+            foreach (string part in seg.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
+            {
+                if (!int.TryParse(part, NumberStyles.None, CultureInfo.InvariantCulture, out int k)) throw new UsageException($"--segments: '{part}' is not a segment number");
+                list.Add(k);
+            }
+            options = options with { Segments = list.ToImmutable() };
+        }
+        return options;
+    }
+
+    /// <summary>Applies one option's value; the importer's refusal becomes a message that starts with the option's name.</summary>
+    private static IvReadOptions Set(IvReadOptions options, Option<string?> option, ParseResult parse, Func<IvReadOptions, string, IvReadOptions> apply)
+    {
+        if (parse.GetValue(option) is not string value) return options;
         try
         {
-            var options = IvReadOptions.Default with
-            {
-                VoltageColumn = parse.GetValue(VoltageColumn),
-                CurrentColumn = parse.GetValue(CurrentColumn),
-                VoltageUnit = parse.GetValue(VoltageUnit),
-                CurrentUnit = parse.GetValue(CurrentUnit),
-                PathPattern = parse.GetValue(PathPattern),
-                MaskCompliance = !parse.GetValue(KeepCompliance),
-            };
-            if (parse.GetValue(Delimiter) is string d)
-            {
-                char c = d.ToLowerInvariant() switch
-                {
-                    "comma" or "," => ',',
-                    "semicolon" or ";" => ';',
-                    "tab" or "\\t" or "\t" => '\t',
-                    "space" or " " => ' ',
-                    "pipe" or "|" => '|',
-                    _ => throw new UsageException($"--delimiter: '{d}' is not one of comma, semicolon, tab, space, pipe"),
-                };
-                options = options with { Delimiter = c };
-            }
-            if (parse.GetValue(Decimal) is string dec)
-            {
-                bool? comma = dec.ToLowerInvariant() switch
-                {
-                    "comma" or "," => true,
-                    "point" or "." or "dot" => false,
-                    "auto" => null,
-                    _ => throw new UsageException($"--decimal: '{dec}' is not one of point, comma, auto"),
-                };
-                options = options with { DecimalComma = comma };
-            }
-            if (parse.GetValue(Segments) is string seg)
-            {
-                var list = ImmutableArray.CreateBuilder<int>();
-                foreach (string part in seg.Split(',', StringSplitOptions.RemoveEmptyEntries | StringSplitOptions.TrimEntries))
-                {
-                    if (!int.TryParse(part, NumberStyles.None, CultureInfo.InvariantCulture, out int k)) throw new UsageException($"--segments: '{part}' is not a segment number");
-                    list.Add(k);
-                }
-                options = options with { Segments = list.ToImmutable() };
-            }
-            return options;
+            return apply(options, value);
         }
         catch (ArgumentException e)
         {
-            throw new UsageException(e.Message);
+            throw UsageException.ForOption(option.Name, e);
         }
     }
 }

@@ -1,4 +1,3 @@
-using System.Collections.Immutable;
 using System.Globalization;
 using JunctionFit.Fitting;
 using JunctionFit.Import;

@@ -58,7 +58,7 @@ public sealed record FitOptions
     public const double DefaultMisfitTolerance = 0.05;
 
     /// <summary>Fit only the points of one sweep direction: +1 rising bias, −1 falling bias, 0 both (default).</summary>
-    public int SweepDirection { get; init => field = value is -1 or 0 or 1 ? value : throw new ArgumentOutOfRangeException(nameof(SweepDirection), value, "−1, 0 or +1"); }
+    public int SweepDirection { get; init => field = Guard.InRange(value, -1, 1); }
 
     /// <summary>Keep the first point of a trace even when it looks like a settling artefact (default: leave it out).</summary>
     public bool KeepSettling { get; init; }

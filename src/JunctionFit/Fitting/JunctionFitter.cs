@@ -5,7 +5,6 @@ using JunctionFit.Physics.Numerics;
 using JunctionFit.Physics;
 using JunctionFit.Results;
 using MathNet.Numerics.Distributions;
-using MathNet.Numerics.LinearAlgebra;
 
 namespace JunctionFit.Fitting;
 

@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using JunctionFit.Common;
 
 namespace JunctionFit.Fitting;
 
@@ -62,22 +63,22 @@ public sealed record LeastSquaresSolution(
 public sealed record LevenbergMarquardtOptions
 {
     /// <summary>Maximum outer iterations.</summary>
-    public int MaxIterations { get; init => field = value >= 1 ? value : throw new ArgumentOutOfRangeException(nameof(MaxIterations), value, "must be at least 1"); } = 200;
+    public int MaxIterations { get; init => field = Guard.AtLeast(value, 1); } = 200;
 
     /// <summary>Maximum residual evaluations, or null for 100·(n+1)·(iterations bound).</summary>
     public int? MaxFunctionEvaluations { get; init; }
 
     /// <summary>Relative reduction tolerance (MINPACK ftol).</summary>
-    public double RelativeReductionTolerance { get; init => field = value >= 0 ? value : throw new ArgumentOutOfRangeException(nameof(RelativeReductionTolerance)); } = 1e-12;
+    public double RelativeReductionTolerance { get; init => field = Guard.NonNegative(value); } = 1e-12;
 
     /// <summary>Relative step tolerance (MINPACK xtol).</summary>
-    public double StepTolerance { get; init => field = value >= 0 ? value : throw new ArgumentOutOfRangeException(nameof(StepTolerance)); } = 1e-12;
+    public double StepTolerance { get; init => field = Guard.NonNegative(value); } = 1e-12;
 
     /// <summary>Gradient (orthogonality) tolerance (MINPACK gtol).</summary>
-    public double GradientTolerance { get; init => field = value >= 0 ? value : throw new ArgumentOutOfRangeException(nameof(GradientTolerance)); } = 1e-14;
+    public double GradientTolerance { get; init => field = Guard.NonNegative(value); } = 1e-14;
 
     /// <summary>Initial trust-region radius factor (MINPACK factor).</summary>
-    public double InitialStepFactor { get; init => field = value > 0 ? value : throw new ArgumentOutOfRangeException(nameof(InitialStepFactor)); } = 100.0;
+    public double InitialStepFactor { get; init => field = Guard.Positive(value); } = 100.0;
 
     /// <summary>The default options.</summary>
     public static LevenbergMarquardtOptions Default { get; } = new();

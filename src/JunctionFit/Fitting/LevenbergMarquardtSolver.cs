@@ -120,7 +120,6 @@ public static class LevenbergMarquardtSolver
         private readonly Span<int> _pivot;
 
         private int _evaluations;
-        private int _jacobianEvaluations;
 
         public Run(ILeastSquaresProblem problem, int m, int n, LevenbergMarquardtOptions options)
         {
@@ -153,7 +152,6 @@ public static class LevenbergMarquardtSolver
             _jacobian = mat.Slice(0, m * n);
             _a = mat.Slice(m * n, m * n);
             _evaluations = 0;
-            _jacobianEvaluations = 0;
         }
 
         public LeastSquaresSolution Execute(ReadOnlySpan<double> start)
@@ -439,7 +437,6 @@ public static class LevenbergMarquardtSolver
         /// </summary>
         private void EvaluateJacobian()
         {
-            _jacobianEvaluations++;
             if (_problem.HasAnalyticJacobian)
             {
                 _problem.Jacobian(_x, _jacobian);

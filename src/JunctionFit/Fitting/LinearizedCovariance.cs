@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using MathNet.Numerics.LinearAlgebra;
+using JunctionFit.Common;
 
 namespace JunctionFit.Fitting;
 
@@ -85,16 +86,9 @@ public static class LinearizedCovariance
             throw new ArgumentException("The Jacobian holds NaN or infinite entries.", nameof(jacobianRowMajor));
         }
 
-        if (!double.IsFinite(residualSumOfSquares) || residualSumOfSquares < 0.0)
-        {
-            throw new ArgumentOutOfRangeException(nameof(residualSumOfSquares), residualSumOfSquares, "must be finite and non-negative");
-        }
+        Guard.NonNegative(residualSumOfSquares);
 
-        double threshold = conditionThreshold ?? DefaultConditionThreshold;
-        if (!(threshold >= 1.0) || double.IsNaN(threshold))
-        {
-            throw new ArgumentOutOfRangeException(nameof(conditionThreshold), threshold, "must be at least 1");
-        }
+        double threshold = Guard.AtLeast(conditionThreshold ?? DefaultConditionThreshold, 1.0, nameof(conditionThreshold));
 
         // Column norms C and the equilibrated J̃ = J C⁻¹ (zero columns left as they are).
         var scale = new double[n];

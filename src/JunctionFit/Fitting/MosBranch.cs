@@ -1,4 +1,3 @@
-using System.Collections.Immutable;
 using JunctionFit.Common;
 using JunctionFit.Import;
 using JunctionFit.Physics;

@@ -108,14 +108,7 @@ public sealed record IvReadOptions
     public long MaxFileBytes
     {
         get;
-        init
-        {
-            if (value < 1 || value > int.MaxValue)
-            {
-                throw new ArgumentOutOfRangeException(nameof(MaxFileBytes), value, "must be between 1 and 2147483647");
-            }
-            field = value;
-        }
+        init => field = Guard.InRange(value, 1L, int.MaxValue);
     } = 1L << 30;
 
     private static string? CheckColumn(string? value)

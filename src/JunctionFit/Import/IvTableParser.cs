@@ -1,4 +1,3 @@
-using System.Globalization;
 using System.Collections.Immutable;
 using System.Runtime.InteropServices;
 
@@ -42,7 +41,7 @@ internal static class IvTableParser
     private static readonly System.Buffers.SearchValues<char> ControlCharacters = System.Buffers.SearchValues.Create(
         "\u0000\u0001\u0002\u0003\u0004\u0005\u0006\u0007\u0008\u000E\u000F\u0010\u0011\u0012\u0013\u0014\u0015\u0016\u0017\u0018\u0019\u001B\u001C\u001D\u001E\u001F\u007F\uFFFD");
     private const int SampleRows = 3;
-    private const int DetailedSkipWarnings = 10;
+    internal const int DetailedSkipWarnings = 10;
 
     /// <summary>
     /// Largest relative deviation of I/J from its median for the ratio to count as one area; instruments
@@ -131,14 +130,9 @@ internal static class IvTableParser
     {
         private readonly List<string> _warnings = [];
         private char _delimiter;
-        private bool? _decimalCommaOption = options.DecimalComma;
+        private readonly bool? _decimalCommaOption = options.DecimalComma;
+        private readonly TableText _table = new(text, lines, path, options.DecimalComma);
         private bool _usedComma;
-
-        private ReadOnlySpan<char> Line(int i) => text.AsSpan(lines.Start(i), lines.Length(i));
-
-        private bool IsBlank(int i) => Line(i).IsWhiteSpace();
-
-        private bool AllowComma(char delimiter, bool quoted) => _decimalCommaOption ?? (delimiter != ',' || quoted);
 
         public ParseOutcome Run(string matchPath, string encodingName)
         {
@@ -149,16 +143,16 @@ internal static class IvTableParser
             int? unitsLine = null;
             bool headerInComment = false;
             List<HeaderField>? header = null;
-            int h = PreviousNonBlank(dataStart - 1);
+            int h = _table.PreviousNonBlank(dataStart - 1);
             if (h >= 0)
             {
-                ReadOnlySpan<char> hl = Line(h);
+                ReadOnlySpan<char> hl = _table.Line(h);
                 bool comment = MetadataParser.IsComment(hl);
                 // A units row may start with '#' (the unit of an index column), so it is tried first.
                 if (IsUnitsRow(hl, dataCount, out List<HeaderField>? unitsFields))
                 {
-                    int h2 = PreviousNonBlank(h - 1);
-                    if (h2 >= 0 && !MetadataParser.IsComment(Line(h2)) && TryHeader(Line(h2), dataCount, requireBoth: false, out List<HeaderField>? above))
+                    int h2 = _table.PreviousNonBlank(h - 1);
+                    if (h2 >= 0 && !MetadataParser.IsComment(_table.Line(h2)) && TryHeader(_table.Line(h2), dataCount, requireBoth: false, out List<HeaderField>? above))
                     {
                         header = MergeUnits(above, unitsFields);
                         headerLine = h2;
@@ -184,9 +178,9 @@ internal static class IvTableParser
             bool metaComma = _decimalCommaOption ?? _delimiter != ',';
             for (int i = 0; i < preambleEnd; i++)
             {
-                if (!IsBlank(i))
+                if (!_table.IsBlank(i))
                 {
-                    MetadataParser.ReadLine(Line(i), i + 1, metaComma, meta, _warnings);
+                    MetadataParser.ReadLine(_table.Line(i), i + 1, metaComma, meta, _warnings);
                 }
             }
 
@@ -194,10 +188,12 @@ internal static class IvTableParser
             ColumnPlan plan = PlanColumns(header, headerLine, dataCount, meta);
 
             // Data rows.
-            var data = ReadRows(dataStart, plan);
+            var rowReader = new TableRowReader(_table, _delimiter, _warnings);
+            var data = rowReader.Read(dataStart, plan);
+            _usedComma |= rowReader.UsedComma;
 
             // Path pattern.
-            ApplyPathPattern(matchPath, meta);
+            PathMetadata.Apply(options.PathPattern, matchPath, meta, _warnings);
 
             return Finish(data, plan, meta, encodingName, dataStart, headerLine, headerInComment, unitsLine);
         }
@@ -214,7 +210,7 @@ internal static class IvTableParser
             {
             for (int i = 0; i < lines.Count; i++)
             {
-                ReadOnlySpan<char> line = Line(i);
+                ReadOnlySpan<char> line = _table.Line(i);
                 if (line.IsWhiteSpace() || MetadataParser.IsComment(line))
                 {
                     continue;
@@ -224,7 +220,7 @@ internal static class IvTableParser
                 int bestCount = 0;
                 foreach (char delim in candidates)
                 {
-                    Classify(line, delim, out int count, out int numeric, out int textual, out int raw);
+                    _table.Classify(line, delim, out int count, out int numeric, out int textual, out int raw);
                     if (numeric < 2 || (pass == 0 && numeric <= textual))
                     {
                         if (numeric == 1 && count == 1 && firstOneColumn < 0)
@@ -240,12 +236,12 @@ internal static class IvTableParser
                     int bad = 0;
                     for (int j = i + 1; j < lines.Count && checkedRows < SampleRows; j++)
                     {
-                        ReadOnlySpan<char> next = Line(j);
+                        ReadOnlySpan<char> next = _table.Line(j);
                         if (next.IsWhiteSpace() || MetadataParser.IsComment(next))
                         {
                             continue;
                         }
-                        Classify(next, delim, out _, out int n2, out int t2, out int raw2);
+                        _table.Classify(next, delim, out _, out int n2, out int t2, out int raw2);
                         bool valid = raw2 == raw && n2 >= 1 && n2 >= t2;
                         if (!valid)
                         {
@@ -287,50 +283,6 @@ internal static class IvTableParser
                 "no table of numbers found: expected rows of at least two numbers (voltage and current) separated by commas, tabs, semicolons or spaces");
         }
 
-        private void Classify(ReadOnlySpan<char> line, char delim, out int count, out int numeric, out int textual)
-            => Classify(line, delim, out count, out numeric, out textual, out _);
-
-        private void Classify(ReadOnlySpan<char> line, char delim, out int count, out int numeric, out int textual, out int raw)
-        {
-            count = 0;
-            numeric = 0;
-            textual = 0;
-            int lastNonEmpty = 0;
-            var cursor = new FieldCursor(line, delim);
-            while (cursor.MoveNext(out ReadOnlySpan<char> field, out bool quoted))
-            {
-                count++;
-                if (field.IsEmpty)
-                {
-                    continue;
-                }
-                lastNonEmpty = count;
-                if (NumberText.TryParse(field, AllowComma(delim, quoted), out _, out _))
-                {
-                    numeric++;
-                }
-                else
-                {
-                    textual++;
-                }
-                if (count > 100_000)
-                {
-                    break;
-                }
-            }
-            raw = count;
-            count = lastNonEmpty;
-        }
-
-        private int PreviousNonBlank(int i)
-        {
-            while (i >= 0 && IsBlank(i))
-            {
-                i--;
-            }
-            return i;
-        }
-
         // ---------------------------------------------------------------- header
 
         private List<HeaderField> SplitHeader(ReadOnlySpan<char> line, char delim, out bool anyNumeric)
@@ -341,7 +293,7 @@ internal static class IvTableParser
             int index = 0;
             while (cursor.MoveNext(out ReadOnlySpan<char> field, out bool quoted))
             {
-                if (!field.IsEmpty && NumberText.TryParse(field, AllowComma(delim, quoted), out _, out _))
+                if (!field.IsEmpty && NumberText.TryParse(field, _table.AllowComma(delim, quoted), out _, out _))
                 {
                     anyNumeric = true;
                 }
@@ -475,30 +427,6 @@ internal static class IvTableParser
         }
 
         // ---------------------------------------------------------------- columns
-
-        private sealed record ColumnPlan(
-            int VoltageIndex,
-            int CurrentIndex,
-            UnitScale VoltageUnit,
-            UnitScale CurrentUnit,
-            bool Density,
-            double AreaM2,
-            ImmutableArray<ImportColumn> Columns)
-        {
-            /// <summary>The current column holds |I| or |J|: the sign is taken from the bias.</summary>
-            public bool Absolute { get; init; }
-
-            /// <summary>A current and a density column for the area from I/J (-1: none).</summary>
-            public int PairCurrentIndex { get; init; } = -1;
-
-            public int PairDensityIndex { get; init; } = -1;
-
-            public UnitScale PairCurrentUnit { get; init; } = UnitScale.Ampere;
-
-            public UnitScale PairDensityUnit { get; init; } = UnitScale.AmperePerSquareCentimetre;
-
-            public string PairText { get; init; } = string.Empty;
-        }
 
         private static bool IsCurrentLike(IvColumnKind k)
             => k is IvColumnKind.Current or IvColumnKind.CurrentDensity or IvColumnKind.AbsoluteCurrent or IvColumnKind.AbsoluteCurrentDensity;
@@ -903,245 +831,9 @@ internal static class IvTableParser
 
         // ---------------------------------------------------------------- rows
 
-        private sealed record RowData(double[] V, double[] I, int[] Lines, int Count, int Skipped, int LastDataLine)
-        {
-            /// <summary>The current and density of the I/J pair in SI (NaN where a cell is not a number); null without a pair.</summary>
-            public double[]? PairI { get; init; }
-
-            public double[]? PairJ { get; init; }
-        }
-
-        private RowData ReadRows(int dataStart, ColumnPlan plan)
-        {
-            int capacity = lines.Count - dataStart;
-            var vs = new double[capacity];
-            var cs = new double[capacity];
-            var ls = new int[capacity];
-            int n = 0;
-            int skipped = 0;
-            int firstSkip = 0, lastSkip = 0;
-            int lastData = dataStart + 1;
-            int vIdx = plan.VoltageIndex, cIdx = plan.CurrentIndex;
-            int maxIdx = Math.Max(vIdx, cIdx);
-            int piIdx = plan.PairCurrentIndex, pjIdx = plan.PairDensityIndex;
-            bool pair = piIdx >= 0 && pjIdx >= 0;
-            double[]? pis = pair ? new double[capacity] : null;
-            double[]? pjs = pair ? new double[capacity] : null;
-            int readTo = pair ? Math.Max(maxIdx, Math.Max(piIdx, pjIdx)) : maxIdx;
-            bool absolute = plan.Absolute;
-            char delim = _delimiter;
-            UnitScale vu = plan.VoltageUnit, cu = plan.CurrentUnit;
-            bool density = plan.Density;
-            double area = plan.AreaM2;
-
-            for (int i = dataStart; i < lines.Count; i++)
-            {
-                ReadOnlySpan<char> line = Line(i);
-                if (line.IsWhiteSpace())
-                {
-                    continue;
-                }
-
-                ReadOnlySpan<char> vText = default, cText = default, piText = default, pjText = default;
-                bool vQuoted = false, cQuoted = false, piQuoted = false, pjQuoted = false;
-                int fields = 0;
-                var cursor = new FieldCursor(line, delim);
-                while (fields <= readTo && cursor.MoveNext(out ReadOnlySpan<char> f, out bool q))
-                {
-                    if (fields == vIdx)
-                    {
-                        vText = f;
-                        vQuoted = q;
-                    }
-                    else if (fields == cIdx)
-                    {
-                        cText = f;
-                        cQuoted = q;
-                    }
-                    if (pair && fields == piIdx)
-                    {
-                        piText = f;
-                        piQuoted = q;
-                    }
-                    if (pair && fields == pjIdx)
-                    {
-                        pjText = f;
-                        pjQuoted = q;
-                    }
-                    fields++;
-                }
-                if (fields > maxIdx + 1)
-                {
-                    fields = maxIdx + 1;
-                }
-
-                string? problem = null;
-                double v = 0, c = 0;
-                if (MetadataParser.IsComment(line))
-                {
-                    problem = "comment line";
-                }
-                else if (fields <= maxIdx)
-                {
-                    problem = LooksLikeText(line, delim)
-                        ? $"text line '{MetadataParser.Short(line.Trim())}'"
-                        : $"{fields} field{(fields == 1 ? string.Empty : "s")}, the {(fields <= vIdx ? "voltage" : "current")} column {(fields <= vIdx ? vIdx : cIdx) + 1} is missing";
-                }
-                else if (!ParseCell(vText, vQuoted, delim, out v, out problem, "voltage")
-                    || !ParseCell(cText, cQuoted, delim, out c, out problem, "current"))
-                {
-                    if (LooksLikeText(line, delim))
-                    {
-                        problem = $"text line '{MetadataParser.Short(line.Trim())}'";
-                    }
-                }
-
-                if (problem is not null)
-                {
-                    skipped++;
-                    if (skipped == 1)
-                    {
-                        firstSkip = i + 1;
-                    }
-                    lastSkip = i + 1;
-                    if (skipped <= DetailedSkipWarnings)
-                    {
-                        _warnings.Add($"line {i + 1}: skipped: {problem}");
-                    }
-                    continue;
-                }
-
-                double vSi = vu.ToSi(v);
-                double cSi = cu.ToSi(c);
-                if (density)
-                {
-                    cSi *= area;
-                }
-                if (absolute)
-                {
-                    // |I| or |J| only: the current flows the way the bias drives it.
-                    cSi = vSi < 0 ? -Math.Abs(cSi) : Math.Abs(cSi);
-                }
-                if (pair)
-                {
-                    pis![n] = LenientCell(piText, piQuoted, delim, plan.PairCurrentUnit);
-                    pjs![n] = LenientCell(pjText, pjQuoted, delim, plan.PairDensityUnit);
-                }
-                vs[n] = vSi;
-                cs[n] = cSi;
-                ls[n] = i + 1;
-                n++;
-                lastData = i + 1;
-            }
-
-            if (skipped > DetailedSkipWarnings)
-            {
-                _warnings.Add($"{skipped} lines skipped in all (lines {firstSkip} to {lastSkip}); the first {DetailedSkipWarnings} are listed above");
-            }
-            if (n == 0)
-            {
-                throw new IvFormatException(path, firstSkip > 0 ? firstSkip : dataStart + 1,
-                    $"no usable data rows: all {skipped} rows were skipped (first: {(_warnings.Find(w => w.StartsWith("line ", StringComparison.Ordinal)) ?? "?")})");
-            }
-            if (n == 1)
-            {
-                throw new IvFormatException(path, ls[0], "only one usable data row; an I–V curve needs at least two points");
-            }
-            return new RowData(vs, cs, ls, n, skipped, lastData) { PairI = pis, PairJ = pjs };
-        }
-
-        private double LenientCell(ReadOnlySpan<char> cell, bool quoted, char delim, UnitScale unit)
-            => !cell.IsEmpty && NumberText.TryParse(cell, AllowComma(delim, quoted), out double x, out _) && double.IsFinite(x) ? unit.ToSi(x) : double.NaN;
-
-        private bool ParseCell(ReadOnlySpan<char> cell, bool quoted, char delim, out double value, out string? problem, string what)
-        {
-            if (cell.IsEmpty)
-            {
-                value = 0;
-                problem = $"{what} cell is empty";
-                return false;
-            }
-            if (!NumberText.TryParse(cell, AllowComma(delim, quoted), out value, out bool comma))
-            {
-                problem = $"{what} '{MetadataParser.Short(cell)}' is not a number";
-                return false;
-            }
-            if (!double.IsFinite(value))
-            {
-                problem = $"{what} '{MetadataParser.Short(cell)}' is not a finite number";
-                return false;
-            }
-            _usedComma |= comma;
-            problem = null;
-            return true;
-        }
-
-        private bool LooksLikeText(ReadOnlySpan<char> line, char delim)
-        {
-            Classify(line, delim, out _, out int numeric, out int textual);
-            return numeric == 0 && textual > 0;
-        }
-
         // ---------------------------------------------------------------- path, finish
 
-        private void ApplyPathPattern(string matchPath, MetadataSet meta)
-        {
-            if (options.PathPattern is not string pattern)
-            {
-                return;
-            }
-            IReadOnlyDictionary<string, string>? values = PathPattern.Create(pattern).Match(matchPath);
-            if (values is null)
-            {
-                _warnings.Add($"path does not match the pattern '{pattern}'; lot, wafer and die not taken from it");
-                return;
-            }
-            foreach ((string key, string value) in values)
-            {
-                switch (key)
-                {
-                    case "lot":
-                        Override(meta.Lot, value, "lot");
-                        meta.Lot = value;
-                        break;
-                    case "wafer":
-                        Override(meta.Wafer, value, "wafer");
-                        meta.Wafer = value;
-                        break;
-                    case "x" or "y":
-                        if (int.TryParse(value, System.Globalization.NumberStyles.AllowLeadingSign, System.Globalization.CultureInfo.InvariantCulture, out int n))
-                        {
-                            int? old = key == "x" ? meta.DieX : meta.DieY;
-                            if (old is int o && o != n)
-                            {
-                                _warnings.Add($"die {key} is {o} in the file but {n} in the path; the path is used");
-                            }
-                            if (key == "x")
-                            {
-                                meta.DieX = n;
-                            }
-                            else
-                            {
-                                meta.DieY = n;
-                            }
-                        }
-                        break;
-                    default:
-                        break;
-                }
-                meta.Raw[key] = value;
-            }
-        }
-
-        private void Override(string? old, string value, string what)
-        {
-            if (old is not null && !old.Equals(value, StringComparison.OrdinalIgnoreCase))
-            {
-                _warnings.Add($"{what} is '{old}' in the file but '{value}' in the path; the path is used");
-            }
-        }
-
-        private ParseOutcome Finish(RowData data, ColumnPlan plan, MetadataSet meta, string encodingName, int dataStart,
+        private ParseOutcome Finish(TableRows data, ColumnPlan plan, MetadataSet meta, string encodingName, int dataStart,
             int? headerLine, bool headerInComment, int? unitsLine)
         {
             int n = data.Count;
@@ -1151,7 +843,7 @@ internal static class IvTableParser
             int totalSegments = n == 0 ? 0 : segments[n - 1] + 1;
             _ = SweepAnalysis.Traces(v, out int traceCount);
             double startV = data.V[0]; // before a segment selection compacts the arrays
-            (double? areaM2, string? areaSource) = ResolveArea(data, plan, meta);
+            (double? areaM2, string? areaSource) = TableArea.Resolve(data, plan, meta, options.AreaM2, _warnings);
             bool[] mask;
             int masked = 0;
             if (options.MaskCompliance)
@@ -1234,7 +926,7 @@ internal static class IvTableParser
             int end = headerLine ?? dataStart;
             for (int i = 0; i < end; i++)
             {
-                preamble += IsBlank(i) ? 0 : 1;
+                preamble += _table.IsBlank(i) ? 0 : 1;
             }
 
             return new ParseOutcome(
@@ -1261,44 +953,6 @@ internal static class IvTableParser
                 traceCount,
                 areaSource,
                 startV);
-        }
-
-        /// <summary>
-        /// The area: the option, else the file's area line, else I/J when the file holds both a current and
-        /// a current-density column whose ratio is constant (within <see cref="AreaRatioTolerance"/>).
-        /// </summary>
-        private (double? AreaM2, string? Source) ResolveArea(RowData data, ColumnPlan plan, MetadataSet meta)
-        {
-            double? stated = options.AreaM2 ?? meta.AreaM2;
-            string? source = options.AreaM2 is not null ? "option" : meta.AreaM2 is not null ? "the file's area line" : null;
-            if (data.PairI is not double[] pi || data.PairJ is not double[] pj)
-            {
-                return (stated, source);
-            }
-            CultureInfo inv = CultureInfo.InvariantCulture;
-            int n = data.Count;
-            if (!SweepAnalysis.TryMedianRatio(pi.AsSpan(0, n), pj.AsSpan(0, n), out double ratio, out double spread, out int used))
-            {
-                _warnings.Add($"area not derived from I/J of {plan.PairText}: fewer than three points where both are well above zero");
-                return (stated, source);
-            }
-            if (spread > AreaRatioTolerance)
-            {
-                _warnings.Add(string.Create(inv, $"area not derived from I/J of {plan.PairText}: the ratio varies by {spread * 100:G3} % over {used} points (more than {AreaRatioTolerance * 100:G2} %), so they do not share one area"));
-                return (stated, source);
-            }
-            string derived = string.Create(inv,
-                $"{ratio:G5} m² ({ratio * 1e4:G5} cm², the area of a circle of {2 * Math.Sqrt(ratio / Math.PI) * 1e6:G4} µm diameter) from I/J of {plan.PairText}, the median over {used} points, constant within {Math.Max(spread * 100, 1e-4):G2} %");
-            if (stated is double s)
-            {
-                if (Math.Abs(ratio / s - 1) > AreaRatioTolerance)
-                {
-                    _warnings.Add(string.Create(inv, $"the {source} gives an area of {s:G5} m² but I/J gives {derived}; the {source} is used"));
-                }
-                return (stated, source);
-            }
-            _warnings.Add($"area {derived}; used as the file's area (for --area-from-file)");
-            return (ratio, "I/J of " + plan.PairText);
         }
 
         private static ImmutableArray<T> Exact<T>(T[] array, int count)

@@ -91,8 +91,8 @@ public static class CetCrossCheck
         ArgumentNullException.ThrowIfNull(results);
         ArgumentNullException.ThrowIfNull(ellipsometry);
         ArgumentNullException.ThrowIfNull(cet);
-        if (!double.IsFinite(lowerNm)) throw new ArgumentOutOfRangeException(nameof(lowerNm), lowerNm, "must be a finite number");
-        if (!double.IsFinite(upperNm) || upperNm <= lowerNm) throw new ArgumentOutOfRangeException(nameof(upperNm), upperNm, "must be a finite number above the lower end");
+        Guard.Finite(lowerNm);
+        Guard.Above(upperNm, lowerNm);
         foreach (var m in cet)
         {
             if (!double.IsFinite(m.CetNm) || m.CetNm <= 0) throw new ArgumentOutOfRangeException(nameof(cet), m.CetNm, $"{m.Source}: CET must be a positive number");

@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using JunctionFit.Physics;
+using JunctionFit.Common;
 
 namespace JunctionFit.Lots;
 
@@ -11,11 +12,7 @@ public sealed record PracticalThreshold
 {
     private PracticalThreshold(double amount, bool isRelative)
     {
-        if (!double.IsFinite(amount) || amount < 0)
-        {
-            throw new ArgumentOutOfRangeException(nameof(amount), amount, "must be a finite number not below zero");
-        }
-        Amount = amount;
+        Amount = Guard.NonNegative(amount);
         IsRelative = isRelative;
     }
 
@@ -100,7 +97,7 @@ public sealed record DriftOptions
     public double Alpha
     {
         get => _alpha;
-        init => _alpha = value > 0 && value < 1 ? value : throw new ArgumentOutOfRangeException(nameof(Alpha), value, "must lie strictly between 0 and 1");
+        init => _alpha = Guard.StrictlyBetween(value, 0.0, 1.0);
     }
 
     /// <summary>Fewest good dies a lot (and the reference) needs for a comparison; at least 2, default 3.</summary>
@@ -108,7 +105,7 @@ public sealed record DriftOptions
     public int MinimumGoodDies
     {
         get => _minimumGoodDies;
-        init => _minimumGoodDies = value >= 2 ? value : throw new ArgumentOutOfRangeException(nameof(MinimumGoodDies), value, "must be at least 2");
+        init => _minimumGoodDies = Guard.AtLeast(value, 2);
     }
 
     /// <summary>

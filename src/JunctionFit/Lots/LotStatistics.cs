@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using MathNet.Numerics.Distributions;
+using JunctionFit.Common;
 
 namespace JunctionFit.Lots;
 
@@ -126,10 +127,7 @@ public static class LotStatistics
         int m = pValues.Count;
         for (int i = 0; i < m; i++)
         {
-            if (!(pValues[i] >= 0 && pValues[i] <= 1))
-            {
-                throw new ArgumentOutOfRangeException(nameof(pValues), pValues[i], $"p-value {i} must lie in [0, 1]");
-            }
+            Guard.InRange(pValues[i], 0.0, 1.0, "0 and 1 (a p-value)", nameof(pValues));
         }
         var order = Enumerable.Range(0, m).OrderBy(i => pValues[i]).ThenBy(i => i).ToArray();
         var adjusted = new double[m];

@@ -4,6 +4,7 @@ using MathNet.Numerics.Distributions;
 using JunctionFit.Import;
 using JunctionFit.Results;
 using JunctionFit.Physics;
+using JunctionFit.Common;
 
 namespace JunctionFit.Lots;
 
@@ -232,11 +233,11 @@ public static class ThicknessComparison
     /// <exception cref="ArgumentOutOfRangeException">An argument is outside its range.</exception>
     public static ConsistencyTest ConsistencyFTest(double rssFree, int dfFree, double rssFixed, int parametersFixed = 1, double alpha = 0.05)
     {
-        if (!double.IsFinite(rssFree) || rssFree <= 0) throw new ArgumentOutOfRangeException(nameof(rssFree), rssFree, "must be a finite number greater than zero");
-        if (!double.IsFinite(rssFixed) || rssFixed < 0) throw new ArgumentOutOfRangeException(nameof(rssFixed), rssFixed, "must be a finite number not below zero");
-        if (dfFree < 1) throw new ArgumentOutOfRangeException(nameof(dfFree), dfFree, "must be at least 1");
-        if (parametersFixed < 1) throw new ArgumentOutOfRangeException(nameof(parametersFixed), parametersFixed, "must be at least 1");
-        if (!(alpha > 0 && alpha < 1)) throw new ArgumentOutOfRangeException(nameof(alpha), alpha, "must lie strictly between 0 and 1");
+        Guard.Positive(rssFree);
+        Guard.NonNegative(rssFixed);
+        Guard.AtLeast(dfFree, 1);
+        Guard.AtLeast(parametersFixed, 1);
+        Guard.StrictlyBetween(alpha, 0.0, 1.0);
 
         double raw = (rssFixed - rssFree) / parametersFixed / (rssFree / dfFree);
         double f = Math.Max(raw, 0);

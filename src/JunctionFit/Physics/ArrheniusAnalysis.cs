@@ -1,3 +1,5 @@
+using JunctionFit.Common;
+
 namespace JunctionFit.Physics;
 
 /// <summary>What the temperature dependence of a junction's current says about the conduction mechanism.</summary>
@@ -60,7 +62,7 @@ public static class ArrheniusAnalysis
         int iMin = 0, iMax = 0;
         for (int k = 0; k < n; k++)
         {
-            if (!(temperatureK[k] > 0) || !double.IsFinite(temperatureK[k])) throw new ArgumentException($"temperature {temperatureK[k]} K is not a positive number", nameof(temperatureK));
+            Guard.Positive(temperatureK[k], nameof(temperatureK));
             if (!double.IsFinite(currentA[k]) || currentA[k] == 0 || Math.Sign(currentA[k]) != sign) throw new ArgumentException("the currents must be finite, non-zero and of one sign", nameof(currentA));
             sx += 1.0 / (PhysicalConstants.BoltzmannJPerK * temperatureK[k] / PhysicalConstants.JoulePerElectronVolt);
             sy += Math.Log(Math.Abs(currentA[k]));

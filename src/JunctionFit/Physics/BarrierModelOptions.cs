@@ -25,16 +25,14 @@ public sealed record BarrierModelOptions
     public double RelativePermittivity
     {
         get;
-        init => field = value >= 1.0 && double.IsFinite(value)
-            ? value
-            : throw new ArgumentOutOfRangeException(nameof(RelativePermittivity), value, "must be a finite number of at least 1");
+        init => field = Guard.AtLeast(value, 1.0);
     } = 3.9;
 
     /// <summary>Fermi energy of the electrodes in eV above their conduction-band bottom (start or fixed value of <c>fermi_energy_eV</c> in <c>wkb</c>).</summary>
     public double FermiEnergyEv
     {
         get;
-        init => field = Guard.Positive(value, nameof(FermiEnergyEv));
+        init => field = Guard.Positive(value);
     } = 5.5;
 
     /// <summary>The gate stack of the <c>mos</c> model (substrate, gate, doping); the defaults: p substrate, n⁺ poly gate.</summary>
@@ -47,8 +45,6 @@ public sealed record BarrierModelOptions
     public double QuadratureRelativeTolerance
     {
         get;
-        init => field = value >= 1e-12 && value <= 1e-3
-            ? value
-            : throw new ArgumentOutOfRangeException(nameof(QuadratureRelativeTolerance), value, "must lie between 1e-12 and 1e-3");
+        init => field = Guard.InRange(value, 1e-12, 1e-3);
     } = 1e-9;
 }

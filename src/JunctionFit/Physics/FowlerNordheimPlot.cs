@@ -1,3 +1,5 @@
+using JunctionFit.Common;
+
 namespace JunctionFit.Physics;
 
 /// <summary>
@@ -42,7 +44,7 @@ public sealed record FowlerNordheimPlot(
                                             bool positiveBias = true, double minAbsVoltageV = 0.0)
     {
         if (voltageV.Length != currentA.Length) throw new ArgumentException("voltage and current must have the same length", nameof(currentA));
-        if (!(thicknessM > 0) || !double.IsFinite(thicknessM)) throw new ArgumentException("the thickness must be a positive number", nameof(thicknessM));
+        Guard.Positive(thicknessM);
         var xs = new List<double>();
         var ys = new List<double>();
         for (int k = 0; k < voltageV.Length; k++)

@@ -187,14 +187,13 @@ public sealed class JunctionCurrentModel
         double lo = Math.Min(0.0, v / rs), hi = Math.Max(0.0, v / rs);
         // Start from the current without R_s, clipped into the bracket.
         double current = Math.Clamp(area * Barrier.CurrentDensity(v, barrier) + g * v, lo, hi);
-        double s = 0.0;
         for (int iteration = 0; iteration < MaxNewtonIterations; iteration++)
         {
             double vj = v - current * rs;
             double h = current - area * Barrier.CurrentDensity(vj, barrier) - g * vj;
             if (h == 0) break;
             if (h > 0) hi = current; else lo = current;
-            s = area * BiasDerivative(vj, barrier) + g;
+            double s = area * BiasDerivative(vj, barrier) + g;
             double next = current - h / (1.0 + s * rs);
             if (!(next > lo && next < hi)) next = 0.5 * (lo + hi); // bisection when Newton leaves the bracket
             double step = Math.Abs(next - current);

@@ -53,7 +53,7 @@ public sealed record MosStackOptions
     public double DopingM3
     {
         get;
-        init => field = value >= 1e18 && value <= 1e26 ? value : throw new ArgumentOutOfRangeException(nameof(DopingM3), value, "must lie between 1e12 and 1e20 cm^-3");
+        init => field = Guard.InRange(value, 1e18, 1e26, "1e12 and 1e20 cm^-3");
     } = DefaultDopingM3;
 
     /// <summary>True when <see cref="DopingM3"/> was stated by the user (false: the default is assumed, and a fit says so).</summary>
@@ -63,7 +63,7 @@ public sealed record MosStackOptions
     public double GateDopingM3
     {
         get;
-        init => field = value >= 1e24 && value <= 1e28 ? value : throw new ArgumentOutOfRangeException(nameof(GateDopingM3), value, "must lie between 1e18 and 1e22 cm^-3");
+        init => field = Guard.InRange(value, 1e24, 1e28, "1e18 and 1e22 cm^-3");
     } = DefaultGateDopingM3;
 
     /// <summary>Work function of a metal gate in eV (default 4.6 eV, near mid-gap like TiN; from memory).</summary>
@@ -123,7 +123,7 @@ public sealed class MosElectrostatics
     public MosElectrostatics(MosStackOptions stack, double temperatureK)
     {
         ArgumentNullException.ThrowIfNull(stack);
-        if (!(temperatureK >= 50 && temperatureK <= 800)) throw new ArgumentOutOfRangeException(nameof(temperatureK), temperatureK, "must lie between 50 and 800 K");
+        Guard.InRange(temperatureK, 50.0, 800.0, "50 and 800 K");
         Stack = stack;
         TemperatureK = temperatureK;
         ThermalVoltageV = PhysicalConstants.BoltzmannJPerK * temperatureK / Q;
@@ -240,13 +240,12 @@ public sealed class MosElectrostatics
         double inverseCox = thicknessM / OxidePermittivityFPerM;
         double lo = -1.5, hi = 1.5;
         double psi = Math.Clamp(drive, -0.2, 1.0);
-        double g = 0, dg = 1;
         for (int iteration = 0; iteration < 200; iteration++)
         {
             double qg = GateCharge(psi, out double cs);
             double vp = PolyVoltage(qg);
-            g = psi + qg * inverseCox + vp - drive;
-            dg = 1.0 + cs * (inverseCox + PolySlope(qg));
+            double g = psi + qg * inverseCox + vp - drive;
+            double dg = 1.0 + cs * (inverseCox + PolySlope(qg));
             if (g > 0) hi = psi; else lo = psi;
             double next = psi - g / dg;
             if (!(next > lo && next < hi)) next = 0.5 * (lo + hi);

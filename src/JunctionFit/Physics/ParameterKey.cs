@@ -1,4 +1,5 @@
 using System.Globalization;
+using JunctionFit.Common;
 
 namespace JunctionFit.Physics;
 
@@ -26,7 +27,7 @@ public sealed class ParameterKey : IEquatable<ParameterKey>
         ArgumentException.ThrowIfNullOrWhiteSpace(name);
         ArgumentNullException.ThrowIfNull(siUnit);
         ArgumentNullException.ThrowIfNull(displayUnit);
-        if (!(displayPerSi > 0) || !double.IsFinite(displayPerSi)) throw new ArgumentException($"display factor of {name} must be positive and finite", nameof(displayPerSi));
+        Guard.Positive(displayPerSi);
         if (!(lowerSi < upperSi)) throw new ArgumentException($"bounds of {name} must satisfy lower < upper", nameof(upperSi));
         Name = name;
         SiUnit = siUnit;

@@ -1,3 +1,5 @@
+using JunctionFit.Common;
+
 namespace JunctionFit.Physics;
 
 /// <summary>
@@ -50,10 +52,7 @@ public sealed class SimmonsImageForceModel : IBarrierModel, IThermalDecay
     /// <exception cref="ArgumentOutOfRangeException">ε_r below 1 or not finite.</exception>
     public SimmonsImageForceModel(double relativePermittivity = 3.9)
     {
-        if (!(relativePermittivity >= 1.0) || !double.IsFinite(relativePermittivity))
-        {
-            throw new ArgumentOutOfRangeException(nameof(relativePermittivity), relativePermittivity, "must be a finite number of at least 1");
-        }
+        Guard.AtLeast(relativePermittivity, 1.0);
         Parameters = [StandardParameters.BarrierHeight, StandardParameters.Thickness, StandardParameters.MassRatio,
                       StandardParameters.RelativePermittivity with { DefaultSi = relativePermittivity }];
     }
@@ -74,6 +73,7 @@ public sealed class SimmonsImageForceModel : IBarrierModel, IThermalDecay
     /// <summary>The image-force geometry at a bias: turning points s₁, s₂ (m), width Δs (m), mean barrier φ̄ (J), and whether it is physical.</summary>
     /// <param name="voltageV">Bias in volt.</param>
     /// <param name="parameters">SI parameters.</param>
+    [System.Diagnostics.CodeAnalysis.SuppressMessage("Performance", "CA1822", Justification = "Part of the model's instance API: callers hold the model.")]
     public (double S1M, double S2M, double WidthM, double MeanBarrierJ, bool Valid) Geometry(double voltageV, ReadOnlySpan<double> parameters)
     {
         var g = Evaluate(voltageV, parameters, out bool valid);

@@ -1,4 +1,5 @@
 using System.Numerics;
+using JunctionFit.Common;
 
 namespace JunctionFit.Physics;
 
@@ -40,7 +41,7 @@ public static class TransferMatrix
         {
             Complex k = j >= 0 ? WaveNumber(energyJ, layerPotentialsJ[j], massKg) : WaveNumber(energyJ, leftPotentialJ, massKg);
             double w = j >= 0 ? layerWidthsM[j] : 0.0;
-            if (w < 0) throw new ArgumentException("layer widths must not be negative", nameof(layerWidthsM));
+            Guard.NonNegative(w, nameof(layerWidthsM));
             Complex p = a + b, q = kNext / k * (a - b);
             Complex phase = Complex.Exp(Complex.ImaginaryOne * k * w);
             a = 0.5 * (p + q) / phase;

@@ -142,7 +142,7 @@ public static class TransitionVoltage
     /// </summary>
     private sealed class MovingQuadraticFit(double[] x, double[] y)
     {
-        private int _lo = 0, _hi = -1, _sinceRebase = int.MaxValue;
+        private int _lo, _hi = -1, _sinceRebase = int.MaxValue;
         private double _origin;
         private double _a0, _a1, _a2, _a3, _a4, _b0, _b1, _b2;
 

@@ -1,4 +1,5 @@
 using JunctionFit.Physics.Numerics;
+using MathNet.Numerics;
 
 namespace JunctionFit.Physics;
 
@@ -167,7 +168,7 @@ public sealed class WkbModel : IBarrierModel
         {
             double t = x / _d;
             double u = _left + _slope * t;
-            if (_image > 0) u += _image * (SpecialFunctions.Digamma(t) + SpecialFunctions.Digamma(1.0 - t) + 2.0 * SpecialFunctions.EulerGamma);
+            if (_image > 0) u += _image * (SpecialFunctions.DiGamma(t) + SpecialFunctions.DiGamma(1.0 - t) + 2.0 * Constants.EulerMascheroni);
             return u;
         }
 

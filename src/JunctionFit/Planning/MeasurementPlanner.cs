@@ -98,7 +98,7 @@ public sealed record PlanRequest
     public ImmutableDictionary<string, (double LowSi, double HighSi)> Ranges { get; init; } = ImmutableDictionary<string, (double, double)>.Empty;
 
     /// <summary>Grid points per range (evenly spaced, ends included), 2 … 9.</summary>
-    public int RangePoints { get; init => field = value is >= 2 and <= 9 ? value : throw new ArgumentOutOfRangeException(nameof(RangePoints), value, "2 … 9"); } = 3;
+    public int RangePoints { get; init => field = Guard.InRange(value, 2, 9); } = 3;
 
     /// <summary>The proposed sweep's bias points, or null to plan without one.</summary>
     public ImmutableArray<double>? ProposedVoltagesV { get; init; }
@@ -113,7 +113,7 @@ public sealed record PlanRequest
     public double? MaxFieldVPerM { get; init => field = value is double v ? Guard.Positive(v) : null; }
 
     /// <summary>Largest number of points of a recommended sweep (the point budget).</summary>
-    public int MaxPoints { get; init => field = value is >= 5 and <= 100_000 ? value : throw new ArgumentOutOfRangeException(nameof(MaxPoints), value, "5 … 100000"); } = 201;
+    public int MaxPoints { get; init => field = Guard.InRange(value, 5, 100_000); } = 201;
 
     /// <summary>Precision targets; empty: the best precision for the point budget.</summary>
     public ImmutableArray<PrecisionTarget> Targets { get; init; } = [];
@@ -122,7 +122,7 @@ public sealed record PlanRequest
     public ImmutableArray<string> FocusKeys { get; init; } = [];
 
     /// <summary>Largest-bias values tried, evenly spaced up to the limit, 4 … 400.</summary>
-    public int BiasSteps { get; init => field = value is >= 4 and <= 400 ? value : throw new ArgumentOutOfRangeException(nameof(BiasSteps), value, "4 … 400"); } = 40;
+    public int BiasSteps { get; init => field = Guard.InRange(value, 4, 400); } = 40;
 }
 
 /// <summary>The outcome of a plan.</summary>

@@ -20,10 +20,12 @@ internal readonly record struct DisplayQuantity(
         ArgumentNullException.ThrowIfNull(p);
         double factor = 1.0;
         string unit = p.Unit;
+        string label = p.Key;
         if (string.Equals(p.Key, ParameterKey.Area.Name, StringComparison.Ordinal))
         {
             factor = 1e12; // m² → µm²
             unit = "µm²";
+            label = "effective area"; // the key names m², the value shown is in µm²
         }
         string? undetermined = !p.IsUndetermined ? null
             : p.Bound is { } b ? $"{(b.IsLower ? "≥" : "≤")} {FormatGeneral(b.Value * factor)}" : "undetermined";
@@ -31,13 +33,20 @@ internal readonly record struct DisplayQuantity(
             p.Key, p.Symbol, unit, p.Value * factor, p.StandardError * factor, p.Lower95 * factor, p.Upper95 * factor, p.IsFixed)
         {
             Undetermined = undetermined,
+            Label = label,
         };
     }
 
-    /// <summary>True when both interval ends are known and finite.</summary>
+    /// <summary>
+    /// Words beside the symbol in a report: the key when the value is shown in the key's own unit, else a name
+    /// (the area, kept in m² as <c>area_m2</c>, is shown in µm² as "effective area").
+    /// </summary>
+    public string Label { get; init; } = "";
+
     /// <summary>For a parameter the data do not determine: its one-sided bound ("≥ 1.2") or "undetermined"; otherwise null.</summary>
     public string? Undetermined { get; init; }
 
+    /// <summary>True when both interval ends are known and finite.</summary>
     public bool HasInterval => Undetermined is null && Lower95 is double lo && Upper95 is double hi && double.IsFinite(lo) && double.IsFinite(hi);
 
     /// <summary>Decimal places that show the interval's half-width to two significant figures (null: use general format).</summary>

@@ -60,8 +60,8 @@ public static class FitPlotRenderer
     public static byte[] RenderPng(FitResult result, int widthPx = 900, int heightPx = 700)
     {
         ArgumentNullException.ThrowIfNull(result);
-        CheckSide(widthPx, nameof(widthPx));
-        CheckSide(heightPx, nameof(heightPx));
+        Guard.InRange(widthPx, MinimumSidePx, MaximumSidePx);
+        Guard.InRange(heightPx, MinimumSidePx, MaximumSidePx);
         if (result.Curve is { } curve) CheckCurve(curve);
         else heightPx = Math.Min(heightPx, FailureBannerMaxHeightPx);
 
@@ -98,13 +98,6 @@ public static class FitPlotRenderer
         AtomicFile.WriteAllBytes(path, RenderPng(result));
     }
 
-    private static void CheckSide(int px, string name)
-    {
-        if (px < MinimumSidePx || px > MaximumSidePx)
-        {
-            throw new ArgumentOutOfRangeException(name, px, $"must be between {MinimumSidePx} and {MaximumSidePx} pixels");
-        }
-    }
 
     private static void CheckCurve(CurveSnapshot curve)
     {
@@ -189,6 +182,29 @@ public static class FitPlotRenderer
 
     private static PlotModel BuildPlotModel(FitResult result, CurveSnapshot curve)
     {
+        var model = NewPlotModel();
+        var (upperMinimum, below) = UpperMinimum(curve);
+        var (limit, clipped) = ResidualLimit(curve);
+        model.Axes.Add(BiasAxis());
+        model.Axes.Add(CurrentAxis(upperMinimum));
+        model.Axes.Add(ResidualAxis(limit));
+        AddPointSeries(model, result, curve, upperMinimum, limit, below + clipped);
+        model.Annotations.Add(new LineAnnotation
+        {
+            Type = LineAnnotationType.Horizontal,
+            Y = 0,
+            YAxisKey = LowerAxisKey,
+            Color = PlotPalette.ZeroLine,
+            StrokeThickness = 1.1,
+            LineStyle = LineStyle.Dash,
+            Layer = AnnotationLayer.BelowSeries,
+        });
+        return model;
+    }
+
+    /// <summary>The empty model: colours, fonts, padding and the legend above the panels.</summary>
+    private static PlotModel NewPlotModel()
+    {
         var model = new PlotModel
         {
             Background = PlotPalette.Background,
@@ -214,127 +230,95 @@ public static class FitPlotRenderer
             LegendPadding = 2,
             LegendSymbolLength = 22,
         });
+        return model;
+    }
 
-        model.Axes.Add(new LinearAxis
-        {
-            Position = AxisPosition.Bottom,
-            Title = "bias V  (V)",
-            TitleFontSize = 11.5,
-            FontSize = 10.5,
-            AxislineStyle = LineStyle.Solid,
-            AxislineColor = PlotPalette.Axis,
-            TicklineColor = PlotPalette.Axis,
-            MajorGridlineStyle = LineStyle.Solid,
-            MajorGridlineColor = PlotPalette.Grid,
-            MinimumPadding = 0.03,
-            MaximumPadding = 0.03,
-            IsZoomEnabled = false,
-            IsPanEnabled = false,
-        });
-        var (upperMinimum, below) = UpperMinimum(curve);
-        model.Axes.Add(new LinearAxis
-        {
-            Position = AxisPosition.Left,
-            Key = UpperAxisKey,
-            Minimum = upperMinimum ?? double.NaN,
-            StartPosition = 0.36,
-            EndPosition = 1.0,
-            Title = "log₁₀ |I|   (I in A)",
-            TitleFontSize = 11.5,
-            FontSize = 10.5,
-            AxislineStyle = LineStyle.Solid,
-            AxislineColor = PlotPalette.Axis,
-            TicklineColor = PlotPalette.Axis,
-            MajorGridlineStyle = LineStyle.Solid,
-            MajorGridlineColor = PlotPalette.Grid,
-            MinimumPadding = 0.04,
-            MaximumPadding = 0.06,
-            IsZoomEnabled = false,
-            IsPanEnabled = false,
-        });
+    /// <summary>A linear axis in the plot's style: solid axis line, grid, no zoom or pan.</summary>
+    private static LinearAxis StyledAxis(AxisPosition position, string title) => new()
+    {
+        Position = position,
+        Title = title,
+        TitleFontSize = 11.5,
+        FontSize = 10.5,
+        AxislineStyle = LineStyle.Solid,
+        AxislineColor = PlotPalette.Axis,
+        TicklineColor = PlotPalette.Axis,
+        MajorGridlineStyle = LineStyle.Solid,
+        MajorGridlineColor = PlotPalette.Grid,
+        IsZoomEnabled = false,
+        IsPanEnabled = false,
+    };
 
-        var (limit, clipped) = ResidualLimit(curve);
-        int offScale = below + clipped;
-        model.Axes.Add(new LinearAxis
-        {
-            Position = AxisPosition.Left,
-            Key = LowerAxisKey,
-            StartPosition = 0.0,
-            EndPosition = 0.25,
-            Minimum = -limit,
-            Maximum = limit,
-            Title = "ln|I| − ln|I_model|",
-            TitleFontSize = 11.5,
-            FontSize = 10.5,
-            AxislineStyle = LineStyle.Solid,
-            AxislineColor = PlotPalette.Axis,
-            TicklineColor = PlotPalette.Axis,
-            MajorGridlineStyle = LineStyle.Solid,
-            MajorGridlineColor = PlotPalette.Grid,
-            MaximumRange = double.MaxValue,
-            IsZoomEnabled = false,
-            IsPanEnabled = false,
-        });
+    private static LinearAxis BiasAxis()
+    {
+        var axis = StyledAxis(AxisPosition.Bottom, "bias V  (V)");
+        axis.MinimumPadding = 0.03;
+        axis.MaximumPadding = 0.03;
+        return axis;
+    }
 
+    /// <summary>The upper panel, log₁₀ |I|; cut at <paramref name="minimum"/> when masked points lie far below the fit.</summary>
+    private static LinearAxis CurrentAxis(double? minimum)
+    {
+        var axis = StyledAxis(AxisPosition.Left, "log₁₀ |I|   (I in A)");
+        axis.Key = UpperAxisKey;
+        axis.Minimum = minimum ?? double.NaN;
+        axis.StartPosition = 0.36;
+        axis.EndPosition = 1.0;
+        axis.MinimumPadding = 0.04;
+        axis.MaximumPadding = 0.06;
+        return axis;
+    }
+
+    /// <summary>The lower panel, the log residuals within ±<paramref name="limit"/>.</summary>
+    private static LinearAxis ResidualAxis(double limit)
+    {
+        var axis = StyledAxis(AxisPosition.Left, "ln|I| − ln|I_model|");
+        axis.Key = LowerAxisKey;
+        axis.StartPosition = 0.0;
+        axis.EndPosition = 0.25;
+        axis.Minimum = -limit;
+        axis.Maximum = limit;
+        axis.MaximumRange = double.MaxValue;
+        return axis;
+    }
+
+    private enum Marker { Fitted, Masked, OffScale }
+
+    /// <summary>Markers of one kind on one panel: filled circles (fitted), crosses (masked), open triangles (off scale).</summary>
+    private static ScatterSeries Markers(Marker kind, string axisKey, string? title = null) => kind switch
+    {
+        Marker.Fitted => new ScatterSeries
+        {
+            Title = title, MarkerType = MarkerType.Circle, MarkerSize = 2.6, MarkerFill = PlotPalette.Measured, MarkerStrokeThickness = 0, YAxisKey = axisKey,
+        },
+        Marker.Masked => new ScatterSeries
+        {
+            Title = title, MarkerType = MarkerType.Cross, MarkerSize = 3.4, MarkerStroke = PlotPalette.Masked, MarkerStrokeThickness = 1.2, YAxisKey = axisKey,
+        },
+        _ => new ScatterSeries
+        {
+            Title = title, MarkerType = MarkerType.Triangle, MarkerSize = 3.6, MarkerFill = OxyColors.Undefined, MarkerStroke = PlotPalette.ZeroLine,
+            MarkerStrokeThickness = 1.1, YAxisKey = axisKey,
+        },
+    };
+
+    /// <summary>
+    /// The measured points (fitted, masked, off scale) on both panels and the model line on the upper one. Points beyond a
+    /// panel's edge are drawn just inside it as open triangles, so nothing disappears silently.
+    /// </summary>
+    private static void AddPointSeries(PlotModel model, FitResult result, CurveSnapshot curve, double? upperMinimum, double limit, int offScale)
+    {
         int n = curve.VoltageV.Length;
         int usedCount = 0;
         for (int i = 0; i < n; i++) if (curve.Used[i]) usedCount++;
 
-        var masked = new ScatterSeries
-        {
-            Title = $"masked ({n - usedCount})",
-            MarkerType = MarkerType.Cross,
-            MarkerSize = 3.4,
-            MarkerStroke = PlotPalette.Masked,
-            MarkerStrokeThickness = 1.2,
-            YAxisKey = UpperAxisKey,
-        };
-        var used = new ScatterSeries
-        {
-            Title = $"measured ({usedCount} fitted)",
-            MarkerType = MarkerType.Circle,
-            MarkerSize = 2.6,
-            MarkerFill = PlotPalette.Measured,
-            MarkerStrokeThickness = 0,
-            YAxisKey = UpperAxisKey,
-        };
-        var residualMasked = new ScatterSeries
-        {
-            MarkerType = MarkerType.Cross,
-            MarkerSize = 3.4,
-            MarkerStroke = PlotPalette.Masked,
-            MarkerStrokeThickness = 1.2,
-            YAxisKey = LowerAxisKey,
-        };
-        var residualUsed = new ScatterSeries
-        {
-            MarkerType = MarkerType.Circle,
-            MarkerSize = 2.6,
-            MarkerFill = PlotPalette.Measured,
-            MarkerStrokeThickness = 0,
-            YAxisKey = LowerAxisKey,
-        };
-
-        // Points beyond a panel's edge are drawn just inside it as open triangles, so nothing disappears silently.
-        var edge = new ScatterSeries
-        {
-            Title = string.Create(Inv, $"off scale ({offScale})"),
-            MarkerType = MarkerType.Triangle,
-            MarkerSize = 3.6,
-            MarkerFill = OxyColors.Undefined,
-            MarkerStroke = PlotPalette.ZeroLine,
-            MarkerStrokeThickness = 1.1,
-            YAxisKey = UpperAxisKey,
-        };
-        var edgeResidual = new ScatterSeries
-        {
-            MarkerType = MarkerType.Triangle,
-            MarkerSize = 3.6,
-            MarkerFill = OxyColors.Undefined,
-            MarkerStroke = PlotPalette.ZeroLine,
-            MarkerStrokeThickness = 1.1,
-            YAxisKey = LowerAxisKey,
-        };
+        var masked = Markers(Marker.Masked, UpperAxisKey, $"masked ({n - usedCount})");
+        var used = Markers(Marker.Fitted, UpperAxisKey, $"measured ({usedCount} fitted)");
+        var residualMasked = Markers(Marker.Masked, LowerAxisKey);
+        var residualUsed = Markers(Marker.Fitted, LowerAxisKey);
+        var edge = Markers(Marker.OffScale, UpperAxisKey, string.Create(Inv, $"off scale ({offScale})"));
+        var edgeResidual = Markers(Marker.OffScale, LowerAxisKey);
         for (int i = 0; i < n; i++)
         {
             double v = curve.VoltageV[i];
@@ -371,18 +355,6 @@ public static class FitPlotRenderer
         model.Series.Add(residualMasked);
         if (edgeResidual.Points.Count > 0) model.Series.Add(edgeResidual);
         model.Series.Add(residualUsed);
-
-        model.Annotations.Add(new LineAnnotation
-        {
-            Type = LineAnnotationType.Horizontal,
-            Y = 0,
-            YAxisKey = LowerAxisKey,
-            Color = PlotPalette.ZeroLine,
-            StrokeThickness = 1.1,
-            LineStyle = LineStyle.Dash,
-            Layer = AnnotationLayer.BelowSeries,
-        });
-        return model;
     }
 
     /// <summary>Decades shown below the lowest fitted point before masked points are cut off.</summary>
@@ -624,7 +596,7 @@ public static class FitPlotRenderer
 
     // ---- failure banner -----------------------------------------------------------------------
 
-    private static void DrawFailureBanner(IRenderContext rc, OxyRect page, FitResult result)
+    private static void DrawFailureBanner(SkiaRenderContext rc, OxyRect page, FitResult result)
     {
         double top = DrawTitle(rc, page, result);
         var frame = new OxyRect(Margin, top + 4, page.Width - 2 * Margin, Math.Max(page.Bottom - top - 4 - Margin, 20));

@@ -1,4 +1,5 @@
 using System.Globalization;
+using System.Net;
 using System.Text;
 using JunctionFit.Common;
 using JunctionFit.Results;
@@ -351,7 +352,7 @@ public static class HtmlReportWriter
         foreach (var p in r.Parameters)
         {
             var q = DisplayQuantity.From(p);
-            sb.Append("<tr><th scope=\"row\">").Append(E(q.Symbol)).Append(" <span class=\"key\">").Append(E(q.Key)).Append("</span></th>")
+            sb.Append("<tr><th scope=\"row\">").Append(E(q.Symbol)).Append(" <span class=\"key\">").Append(E(q.Label)).Append("</span></th>")
               .Append("<td class=\"num\">").Append(E(q.IsFixed ? DisplayQuantity.FormatGeneral(q.Value) : q.ValueText)).Append("</td>")
               .Append("<td class=\"num\">").Append(E(q.StandardError is double se ? DisplayQuantity.FormatGeneral(se) : "—")).Append("</td>")
               .Append("<td class=\"num\">").Append(E(q.IntervalText)).Append("</td>")
@@ -412,29 +413,12 @@ public static class HtmlReportWriter
     private static string SymbolOf(FitResult r, string key) => r.Find(key) is { } p ? p.Symbol : key;
 
     /// <summary>
-    /// HTML-escapes text for element content and quoted attributes: &amp; &lt; &gt; " ' become entities, NUL becomes
-    /// U+FFFD; everything else (µ, ², φ …) stays as UTF-8 text, which the document declares.
+    /// HTML-escapes text for element content and quoted attributes with <see cref="WebUtility.HtmlEncode(string)"/>
+    /// (&amp; &lt; &gt; " ' and the Latin-1 letters µ ² ± ° as character references, other text as UTF-8, which the
+    /// document declares); NUL becomes U+FFFD first.
     /// </summary>
     internal static string E(string? text)
-    {
-        if (string.IsNullOrEmpty(text)) return "";
-        if (text.AsSpan().IndexOfAny("&<>\"'\0") < 0) return text;
-        var sb = new StringBuilder(text.Length + 16);
-        foreach (char c in text)
-        {
-            switch (c)
-            {
-                case '&': sb.Append("&amp;"); break;
-                case '<': sb.Append("&lt;"); break;
-                case '>': sb.Append("&gt;"); break;
-                case '"': sb.Append("&quot;"); break;
-                case '\'': sb.Append("&#39;"); break;
-                case '\0': sb.Append('\uFFFD'); break;
-                default: sb.Append(c); break;
-            }
-        }
-        return sb.ToString();
-    }
+        => string.IsNullOrEmpty(text) ? "" : WebUtility.HtmlEncode(text.Replace('\0', '\uFFFD'));
 
     // ---- inline assets ------------------------------------------------------------------------
 

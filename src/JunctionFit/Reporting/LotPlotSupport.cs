@@ -1,9 +1,9 @@
 using System.Globalization;
 using JunctionFit.Results;
-using JunctionFit.Lots;
 using OxyPlot;
 using OxyPlot.SkiaSharp;
 using JunctionFit.Physics;
+using JunctionFit.Common;
 
 namespace JunctionFit.Reporting;
 
@@ -23,9 +23,6 @@ internal static class LotPlotSupport
     {
         /// <summary>"φ (eV)" or "m*/mₑ".</summary>
         public string AxisTitle => Unit.Length == 0 ? $"{Name}  {Symbol}" : $"{Name}  {Symbol}  ({Unit})";
-
-        /// <summary>A value in display units, four significant figures.</summary>
-        public string Format(double displayValue) => DisplayQuantity.FormatGeneral(displayValue);
     }
 
     public static Display DisplayOf(string key)
@@ -37,13 +34,7 @@ internal static class LotPlotSupport
         : key == ParameterKey.FlatBandVoltage.Name ? new("V_fb", "flat-band voltage", "V", 1)
         : new(key, key, "", 1);
 
-    public static void CheckSide(int px, string name)
-    {
-        if (px < MinimumSidePx || px > MaximumSidePx)
-        {
-            throw new ArgumentOutOfRangeException(name, px, $"must be between {MinimumSidePx} and {MaximumSidePx} pixels");
-        }
-    }
+    public static void CheckSide(int px, string name) => Guard.InRange(px, MinimumSidePx, MaximumSidePx, name);
 
     public static PlotModel NewModel(string title, string subtitle) => new()
     {

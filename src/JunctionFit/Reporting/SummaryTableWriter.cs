@@ -80,8 +80,9 @@ public static class SummaryTableWriter
 
     /// <summary>
     /// A plain-text table for the console: file, status, φ (eV), d (nm), area (µm²) each with its 95 % interval
-    /// in brackets or "(fixed)", reduced χ², transition voltage and the number of warnings; a failed row shows its
-    /// error in the last column. Columns are padded with spaces, numbers right-aligned; long file names are
+    /// in brackets or "(fixed)", then one column for every other parameter that is free in at least one result (Δφ, R_s,
+    /// G_leak, …, headed by its key with the unit in brackets, in order of first appearance), reduced χ², transition
+    /// voltage and the number of warnings; a failed row shows its error in the last column. Columns are padded with spaces, numbers right-aligned; long file names are
     /// shortened from the left (the end of a path names the die). Lines end with "\n".
     /// </summary>
     /// <param name="results">One row per result.</param>
@@ -92,12 +93,13 @@ public static class SummaryTableWriter
         ArgumentNullException.ThrowIfNull(results);
         if (results.Count == 0) return "(no results)\n";
         const int maxFileWidth = 40;
-        string[] header = ["file", "status", "phi (eV)", "d (nm)", "area (um2)", "red.chi2", "Vt (V)", "warn", "note"];
-        bool[] right = [false, false, true, true, true, true, true, true, false];
+        foreach (var r in results) ArgumentNullException.ThrowIfNull(r, nameof(results));
+        var extra = ExtraFreeParameters(results);
+        string[] header = ["file", "status", "phi (eV)", "d (nm)", "area (um2)", .. extra.Select(ConsoleHeader), "red.chi2", "Vt (V)", "warn", "note"];
+        bool[] right = [false, false, true, true, true, .. extra.Select(_ => true), true, true, true, false];
         var rows = new List<string[]>(results.Count);
         foreach (var r in results)
         {
-            ArgumentNullException.ThrowIfNull(r, nameof(results));
             rows.Add(
             [
                 ShortenLeft(OneLine(r.SourcePath), maxFileWidth),
@@ -105,6 +107,7 @@ public static class SummaryTableWriter
                 ConsoleQuantity(r, SummaryRow.BarrierHeightKey),
                 ConsoleQuantity(r, SummaryRow.ThicknessKey),
                 ConsoleQuantity(r, SummaryRow.AreaKey),
+                .. extra.Select(p => ConsoleQuantity(r, p.Key)),
                 SummaryRow.ChiText(r).Replace("—", "-", StringComparison.Ordinal),
                 SummaryRow.TransitionText(r).Replace("—", "-", StringComparison.Ordinal),
                 r.Warnings.Length.ToString(Inv),
@@ -127,6 +130,31 @@ public static class SummaryTableWriter
         sb.Append('\n');
         foreach (var row in rows) AppendRow(sb, row, width, right);
         return sb.ToString();
+    }
+
+    /// <summary>Parameters beyond φ, d and A that are free in at least one result, in order of first appearance.</summary>
+    private static List<ParameterEstimate> ExtraFreeParameters(IReadOnlyList<FitResult> results)
+    {
+        var found = new List<ParameterEstimate>();
+        foreach (var r in results)
+        {
+            foreach (var p in r.Parameters)
+            {
+                if (p.IsFixed || p.Key == SummaryRow.BarrierHeightKey || p.Key == SummaryRow.ThicknessKey || p.Key == SummaryRow.AreaKey) continue;
+                if (!found.Exists(q => q.Key == p.Key)) found.Add(p);
+            }
+        }
+        return found;
+    }
+
+    /// <summary>
+    /// ASCII header of a parameter column: a key names its unit in its last part when it has one
+    /// (<c>series_resistance_ohm</c> → "series_resistance (ohm)"); a pure number keeps its key.
+    /// </summary>
+    private static string ConsoleHeader(ParameterEstimate p)
+    {
+        int last = p.Key.LastIndexOf('_');
+        return p.Unit.Length > 0 && last > 0 ? $"{p.Key[..last]} ({p.Key[(last + 1)..]})" : p.Key;
     }
 
     private static void AppendRow(StringBuilder sb, string[] cells, int[] width, bool[] right)

@@ -133,9 +133,9 @@ public static class TrendChartRenderer
         if (reference.Points.Count > 0) model.Series.Add(reference);
         if (alarm.Points.Count > 0) model.Series.Add(alarm);
 
-        if (chart.CentreLine is double c) model.Annotations.Add(Horizontal(c * f, $"CL {display.Format(c * f)}", PlotPalette.ZeroLine, LineStyle.Solid));
-        if (chart.UpperLimit is double ucl) model.Annotations.Add(Horizontal(ucl * f, $"UCL {display.Format(ucl * f)}", LotPlotSupport.Alarm, LineStyle.Dash));
-        if (chart.LowerLimit is double lcl) model.Annotations.Add(Horizontal(lcl * f, $"LCL {display.Format(lcl * f)}", LotPlotSupport.Alarm, LineStyle.Dash));
+        if (chart.CentreLine is double c) model.Annotations.Add(Horizontal(c * f, $"CL {DisplayQuantity.FormatGeneral(c * f)}", PlotPalette.ZeroLine, LineStyle.Solid));
+        if (chart.UpperLimit is double ucl) model.Annotations.Add(Horizontal(ucl * f, $"UCL {DisplayQuantity.FormatGeneral(ucl * f)}", LotPlotSupport.Alarm, LineStyle.Dash));
+        if (chart.LowerLimit is double lcl) model.Annotations.Add(Horizontal(lcl * f, $"LCL {DisplayQuantity.FormatGeneral(lcl * f)}", LotPlotSupport.Alarm, LineStyle.Dash));
         return model;
     }
 

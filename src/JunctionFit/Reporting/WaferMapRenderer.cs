@@ -100,7 +100,7 @@ public static class WaferMapRenderer
         {
             string.Create(Inv, $"{dies.Count} dies: {ok} ok, {poor} poor (outlined), {failed} failed (×)"),
         };
-        if (good.Count > 0) parts.Add($"median {display.Format(LotStatistics.Median(good))}{Unit(display)} over good dies");
+        if (good.Count > 0) parts.Add($"median {DisplayQuantity.FormatGeneral(LotStatistics.Median(good))}{Unit(display)} over good dies");
         if (unplaced > 0) parts.Add(string.Create(Inv, $"{unplaced} without die coordinates not shown"));
         if (clipped > 0) parts.Add(string.Create(Inv, $"{clipped} beyond the scale (end colour)"));
         var model = LotPlotSupport.NewModel(title, string.Join("   ·   ", parts));

@@ -10,6 +10,7 @@ public enum ResultValueKind
     Text,
 
     /// <summary>A whole number; null when unknown.</summary>
+    [System.Diagnostics.CodeAnalysis.SuppressMessage("Naming", "CA1720", Justification = "The kinds name the data a column holds.")]
     Integer,
 
     /// <summary>A real number in the column's unit; null (or not finite) when unknown.</summary>

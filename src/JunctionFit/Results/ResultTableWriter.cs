@@ -112,6 +112,7 @@ public static class ResultTableWriter
 /// A result table written row by row (batch streams results.csv in input order): the header on creation, then a
 /// record per <see cref="Write"/>. Disposing flushes; the destination stays open.
 /// </summary>
+[System.Diagnostics.CodeAnalysis.SuppressMessage("Naming", "CA1711", Justification = "A stream of result rows; the name is public API used by batch.")]
 public sealed class ResultCsvStream : IDisposable
 {
     private readonly CsvWriter _csv;

@@ -1,3 +1,5 @@
+using JunctionFit.Common;
+
 namespace JunctionFit.Storage;
 
 /// <summary>How a results database is opened.</summary>
@@ -8,9 +10,7 @@ public sealed record ResultStoreOptions
     public TimeSpan BusyTimeout
     {
         get;
-        init => field = value > TimeSpan.Zero && value <= TimeSpan.FromHours(1)
-            ? value
-            : throw new ArgumentOutOfRangeException(nameof(BusyTimeout), value, "must be more than zero and at most one hour");
+        init => field = Guard.Duration(value, TimeSpan.FromHours(1));
     } = TimeSpan.FromSeconds(60);
 
     /// <summary>How often a chunk whose transaction failed on a lock, a deadlock or a serialization conflict is tried again
@@ -18,7 +18,7 @@ public sealed record ResultStoreOptions
     public int TransientRetries
     {
         get;
-        init => field = value is >= 0 and <= 100 ? value : throw new ArgumentOutOfRangeException(nameof(TransientRetries), value, "must be 0 to 100");
+        init => field = Guard.InRange(value, 0, 100);
     } = 5;
 
     /// <summary>Default options.</summary>

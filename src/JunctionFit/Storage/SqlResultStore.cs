@@ -1,11 +1,9 @@
-using System.Buffers;
-using System.Collections.Immutable;
 using System.Data;
 using System.Data.Common;
 using System.Globalization;
 using System.Text;
-using System.Text.Json;
 using JunctionFit.Results;
+using JunctionFit.Common;
 
 namespace JunctionFit.Storage;
 
@@ -87,6 +85,7 @@ internal abstract class SqlResultStore : IResultStore
         "r.run_id, r.run_started_utc, r.tool_version, r.host, r.stored_utc, r.fitted_by, r.fitted_at, " +
         "p.ordinal, p.param_key, p.symbol, p.unit, p.value, p.stderr, p.lower95, p.upper95, p.is_fixed";
 
+    private readonly TransientRetry _retry;
     private bool _disposed;
 
     /// <summary>Creates the store (not yet migrated).</summary>
@@ -96,6 +95,7 @@ internal abstract class SqlResultStore : IResultStore
     {
         Options = options;
         Description = description;
+        _retry = new TransientRetry(options.TransientRetries, e => IsTransient(e), Wrap);
     }
 
     /// <inheritdoc />
@@ -287,7 +287,7 @@ internal abstract class SqlResultStore : IResultStore
             using var cmd = Command(connection, null, sql);
             foreach (var (name, value) in values) AddParameter(cmd, name, ColumnKind.Text, value);
             using var reader = cmd.ExecuteReader();
-            return ReadRows(reader);
+            return new StoredRowReader(ReadTime).ReadAll(reader);
         });
     }
 
@@ -313,7 +313,7 @@ internal abstract class SqlResultStore : IResultStore
                     AddParameter(cmd, "@o", ColumnKind.Text, options);
                     for (int i = 0; i < n; i++) AddParameter(cmd, "@h" + i.ToString(Inv), ColumnKind.Text, hashes[start + i]);
                     using var reader = cmd.ExecuteReader();
-                    rows.AddRange(ReadRows(reader));
+                    rows.AddRange(new StoredRowReader(ReadTime).ReadAll(reader));
                 }
             }
             return (IReadOnlyList<StoredResult>)rows;
@@ -611,9 +611,9 @@ internal abstract class SqlResultStore : IResultStore
                 [
                     row.Key.FileSha256, row.Key.Model, row.Key.OptionsHash, row.OptionsText, r.SourcePath, r.Lot, r.Wafer,
                     r.DieX, r.DieY, ResultSchema.StatusText(r.Status), r.Error,
-                    q?.PointsUsed, q?.PointsMasked, q?.Iterations, Finite(q?.ResidualSumOfSquares), Finite(q?.ReducedChiSquare), q?.Converged,
+                    q?.PointsUsed, q?.PointsMasked, q?.Iterations, StoredColumnCodecs.Finite(q?.ResidualSumOfSquares), StoredColumnCodecs.Finite(q?.ReducedChiSquare), q?.Converged,
                     q?.StopReason, q?.CovarianceScaling, q?.IntervalMethod,
-                    Finite(r.TransitionVoltageV), WarningsJson(r.Warnings), CorrelationJson(r), r.Parameters.Length,
+                    StoredColumnCodecs.Finite(r.TransitionVoltageV), StoredColumnCodecs.WarningsJson(r.Warnings), StoredColumnCodecs.CorrelationJson(r), r.Parameters.Length,
                     row.Run.RunId, TimeValue(row.Run.StartedUtc), row.Run.ToolVersion, row.Run.Host, TimeValue(storedUtc),
                     row.FittedBy ?? row.Run.Host, TimeValue(row.FittedAt ?? storedUtc),
                 ];
@@ -636,10 +636,10 @@ internal abstract class SqlResultStore : IResultStore
                     child.Values[f++].Value = e.Key;
                     child.Values[f++].Value = e.Symbol;
                     child.Values[f++].Value = e.Unit;
-                    child.Values[f++].Value = Finite(e.Value) ?? (object)DBNull.Value;
-                    child.Values[f++].Value = Finite(e.StandardError) ?? (object)DBNull.Value;
-                    child.Values[f++].Value = Finite(e.Lower95) ?? (object)DBNull.Value;
-                    child.Values[f++].Value = Finite(e.Upper95) ?? (object)DBNull.Value;
+                    child.Values[f++].Value = StoredColumnCodecs.Finite(e.Value) ?? (object)DBNull.Value;
+                    child.Values[f++].Value = StoredColumnCodecs.Finite(e.StandardError) ?? (object)DBNull.Value;
+                    child.Values[f++].Value = StoredColumnCodecs.Finite(e.Lower95) ?? (object)DBNull.Value;
+                    child.Values[f++].Value = StoredColumnCodecs.Finite(e.Upper95) ?? (object)DBNull.Value;
                     child.Values[f++].Value = e.IsFixed;
                 }
                 child.Command.ExecuteNonQuery();
@@ -680,148 +680,36 @@ internal abstract class SqlResultStore : IResultStore
         return (cmd, id, values);
     }
 
-    private List<StoredResult> ReadRows(DbDataReader reader)
-    {
-        var rows = new List<StoredResult>();
-        long currentId = long.MinValue;
-        DbDataReaderRow? pending = null;
-        while (reader.Read())
-        {
-            long id = reader.GetInt64(0);
-            if (id != currentId)
-            {
-                if (pending is not null) rows.Add(pending.Build());
-                pending = new DbDataReaderRow(this, reader);
-                currentId = id;
-            }
-            if (!reader.IsDBNull(32)) pending!.AddParameter(reader);
-        }
-        if (pending is not null) rows.Add(pending.Build());
-        return rows;
-    }
-
-    /// <summary>One result being read: its own columns, then its parameter rows.</summary>
-    private sealed class DbDataReaderRow
-    {
-        private readonly ResultKey _key;
-        private readonly string _optionsText;
-        private readonly RunInfo _run;
-        private readonly DateTimeOffset _storedUtc;
-        private readonly string? _fittedBy;
-        private readonly DateTimeOffset? _fittedAt;
-        private readonly FitResult _result;
-        private readonly ImmutableArray<ParameterEstimate>.Builder _parameters;
-
-        public DbDataReaderRow(SqlResultStore store, DbDataReader r)
-        {
-            _key = new ResultKey(r.GetString(1), r.GetString(2), r.GetString(3));
-            _optionsText = r.GetString(4);
-            FitQuality? quality = r.IsDBNull(12) ? null : new FitQuality(
-                r.GetInt32(12), IntOr(r, 13) ?? 0, IntOr(r, 14) ?? 0, DoubleOr(r, 15) ?? double.NaN, DoubleOr(r, 16),
-                !r.IsDBNull(17) && r.GetBoolean(17), TextOr(r, 18) ?? "", TextOr(r, 19) ?? "", TextOr(r, 20) ?? "");
-            var (corrKeys, corr) = ParseCorrelation(r.GetString(23));
-            _result = new FitResult
-            {
-                SourcePath = r.GetString(5),
-                Lot = TextOr(r, 6),
-                Wafer = TextOr(r, 7),
-                DieX = IntOr(r, 8),
-                DieY = IntOr(r, 9),
-                Model = _key.Model,
-                Status = ParseStatus(r.GetString(10)),
-                Error = TextOr(r, 11),
-                Quality = quality,
-                TransitionVoltageV = DoubleOr(r, 21),
-                Warnings = ParseWarnings(r.GetString(22)),
-                CorrelationKeys = corrKeys,
-                CorrelationRowMajor = corr,
-            };
-            _parameters = ImmutableArray.CreateBuilder<ParameterEstimate>(r.GetInt32(24));
-            _run = new RunInfo(r.GetString(25), store.ReadTime(r, 26), r.GetString(27), TextOr(r, 28));
-            _storedUtc = store.ReadTime(r, 29);
-            _fittedBy = TextOr(r, 30) is { Length: > 0 } by ? by : null;
-            _fittedAt = r.IsDBNull(31) ? null : store.ReadTime(r, 31);
-        }
-
-        public void AddParameter(DbDataReader r) => _parameters.Add(new ParameterEstimate(
-            r.GetString(33), r.GetString(34), r.GetString(35), DoubleOr(r, 36) ?? double.NaN,
-            DoubleOr(r, 37), DoubleOr(r, 38), DoubleOr(r, 39), r.GetBoolean(40)));
-
-        public StoredResult Build()
-            => new(_key, _optionsText, _run, _result with { Parameters = _parameters.ToImmutable() }, _storedUtc)
-            {
-                FittedBy = _fittedBy,
-                FittedAt = _fittedAt,
-            };
-    }
-
     private T Read<T>(string what, Func<DbConnection, T> work)
     {
         ObjectDisposedException.ThrowIf(_disposed, this);
-        for (int attempt = 0; ; attempt++)
+        return _retry.Run(what, () =>
         {
-            try
-            {
-                using var lease = Lease();
-                return work(lease.Connection);
-            }
-            catch (Exception e) when (e is DbException && IsTransient(e) && attempt < Options.TransientRetries)
-            {
-                Backoff(attempt);
-            }
-            catch (DbException e)
-            {
-                throw Wrap(what, e);
-            }
-        }
+            using var lease = Lease();
+            return work(lease.Connection);
+        });
     }
 
     private T InWriteTransaction<T>(string what, Func<DbConnection, DbTransaction, T> work)
     {
         ObjectDisposedException.ThrowIf(_disposed, this);
-        for (int attempt = 0; ; attempt++)
+        return _retry.Run(what, () =>
         {
+            using var lease = Lease();
+            using var transaction = BeginWrite(lease.Connection);
             try
             {
-                using var lease = Lease();
-                using var transaction = BeginWrite(lease.Connection);
-                try
-                {
-                    T value = work(lease.Connection, transaction);
-                    transaction.Commit();
-                    return value;
-                }
-                catch
-                {
-                    TryRollback(transaction);
-                    throw;
-                }
+                T value = work(lease.Connection, transaction);
+                transaction.Commit();
+                return value;
             }
-            catch (Exception e) when (e is DbException && IsTransient(e) && attempt < Options.TransientRetries)
+            catch
             {
-                Backoff(attempt);
+                TransientRetry.TryRollback(transaction);
+                throw;
             }
-            catch (DbException e)
-            {
-                throw Wrap(what, e);
-            }
-        }
+        });
     }
-
-    private static void TryRollback(DbTransaction transaction)
-    {
-        try
-        {
-            transaction.Rollback();
-        }
-        catch (Exception e) when (e is DbException or InvalidOperationException)
-        {
-            // The engine already ended the transaction (a lost connection or an error that aborts it): nothing to undo.
-        }
-    }
-
-    private static void Backoff(int attempt)
-        => Thread.Sleep(TimeSpan.FromMilliseconds(Math.Min(2000, 25 * (1 << Math.Min(attempt, 6))) + Random.Shared.Next(25)));
 
     private ResultStoreException Wrap(string what, DbException e)
         => new($"{Description}: {what} failed: {ConnectionStrings.Redact(e.Message)}", e);
@@ -831,13 +719,7 @@ internal abstract class SqlResultStore : IResultStore
         if (key.Model is null) throw new ArgumentException("the key is empty (default)", nameof(key));
     }
 
-    private static void CheckLease(TimeSpan lease)
-    {
-        if (lease <= TimeSpan.Zero || lease > TimeSpan.FromDays(1))
-        {
-            throw new ArgumentOutOfRangeException(nameof(lease), lease, "a lease must be more than zero and at most one day");
-        }
-    }
+    private static void CheckLease(TimeSpan lease) => Guard.Duration(lease, TimeSpan.FromDays(1));
 
     private static int CompareKeys(ResultKey a, ResultKey b)
     {
@@ -873,65 +755,5 @@ internal abstract class SqlResultStore : IResultStore
         return sb.ToString();
     }
 
-    private static double? Finite(double? x) => x is double v && !double.IsNaN(v) ? v : null;
 
-    private static string? TextOr(DbDataReader r, int i) => r.IsDBNull(i) ? null : r.GetString(i);
-
-    private static int? IntOr(DbDataReader r, int i) => r.IsDBNull(i) ? null : r.GetInt32(i);
-
-    private static double? DoubleOr(DbDataReader r, int i) => r.IsDBNull(i) ? null : r.GetDouble(i);
-
-    private static FitStatus ParseStatus(string text) => ResultSchema.TryParseStatus(text, out var status)
-        ? status
-        : throw new ResultStoreException($"status '{text}' in the database is not ok, poor-fit or failed");
-
-    private static string WarningsJson(ImmutableArray<string> warnings)
-    {
-        var buffer = new ArrayBufferWriter<byte>(64);
-        using (var w = new Utf8JsonWriter(buffer))
-        {
-            w.WriteStartArray();
-            foreach (string s in warnings) w.WriteStringValue(s);
-            w.WriteEndArray();
-        }
-        return Encoding.UTF8.GetString(buffer.WrittenSpan);
-    }
-
-    private static ImmutableArray<string> ParseWarnings(string json)
-    {
-        using var doc = JsonDocument.Parse(json);
-        var b = ImmutableArray.CreateBuilder<string>(doc.RootElement.GetArrayLength());
-        foreach (var e in doc.RootElement.EnumerateArray()) b.Add(e.GetString() ?? "");
-        return b.MoveToImmutable();
-    }
-
-    /// <summary><c>{"keys": [...], "matrix": [row-major, null for NaN]}</c>.</summary>
-    private static string CorrelationJson(FitResult r)
-    {
-        var buffer = new ArrayBufferWriter<byte>(128);
-        using (var w = new Utf8JsonWriter(buffer))
-        {
-            w.WriteStartObject();
-            w.WriteStartArray("keys");
-            foreach (string k in r.CorrelationKeys) w.WriteStringValue(k);
-            w.WriteEndArray();
-            w.WriteStartArray("matrix");
-            foreach (double x in r.CorrelationRowMajor)
-            {
-                if (double.IsFinite(x)) w.WriteNumberValue(x); else w.WriteNullValue();
-            }
-            w.WriteEndArray();
-            w.WriteEndObject();
-        }
-        return Encoding.UTF8.GetString(buffer.WrittenSpan);
-    }
-
-    private static (ImmutableArray<string>, ImmutableArray<double>) ParseCorrelation(string json)
-    {
-        using var doc = JsonDocument.Parse(json);
-        var keys = doc.RootElement.GetProperty("keys").EnumerateArray().Select(e => e.GetString() ?? "").ToImmutableArray();
-        var matrix = doc.RootElement.GetProperty("matrix").EnumerateArray()
-            .Select(e => e.ValueKind == JsonValueKind.Number ? e.GetDouble() : double.NaN).ToImmutableArray();
-        return (keys, matrix);
-    }
 }

@@ -235,7 +235,7 @@ public class HelpTextTests
         // Options listed in the help's option section (each at the start of an entry line), not merely mentioned in a text.
         var (code, output, _) = CliRunner.Run("fit", "--help");
         Assert.Equal(0, code);
-        var optionLines = output.Split('\n').Select(l => l.TrimStart()).Where(l => l.StartsWith("--", StringComparison.Ordinal) || l.StartsWith("-", StringComparison.Ordinal)).ToList();
+        var optionLines = output.Split('\n').Select(l => l.TrimStart()).Where(l => l.StartsWith("--", StringComparison.Ordinal) || l.StartsWith('-')).ToList();
         foreach (string option in new[] { "--model", "--area", "--mass-ratio", "--json", "--out", "--interval", "--free", "--fix" })
         {
             Assert.Contains(optionLines, l => l.Split(' ', ',')[0] == option || l.Contains(", " + option + " ", StringComparison.Ordinal));

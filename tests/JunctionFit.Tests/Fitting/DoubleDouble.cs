@@ -117,8 +117,8 @@ internal readonly record struct DoubleDouble(double Hi, double Lo)
         }
 
         DoubleDouble value = exponent >= 0
-            ? (DoubleDouble)(double)mantissa * Math.Pow(10, exponent)
-            : (DoubleDouble)(double)mantissa / Math.Pow(10, -exponent);
+            ? (DoubleDouble)mantissa * Math.Pow(10, exponent)
+            : (DoubleDouble)mantissa / Math.Pow(10, -exponent);
         return negative ? -value : value;
     }
 }

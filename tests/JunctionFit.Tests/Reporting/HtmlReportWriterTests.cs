@@ -52,7 +52,7 @@ public class HtmlReportWriterTests
     public void Render_TwoPlots_EmbedsOneDataUriPerPlot()
     {
         string html = HtmlReportWriter.Render(Run, Entries());
-        Assert.Equal(2, Regex.Matches(html, Regex.Escape("<img src=\"data:image/png;base64,")).Count);
+        Assert.Equal(2, Regex.Count(html, Regex.Escape("<img src=\"data:image/png;base64,")));
         Assert.Contains("no plot for this result", html, StringComparison.Ordinal);
     }
 
@@ -81,7 +81,7 @@ public class HtmlReportWriterTests
         string html = HtmlReportWriter.Render(Run, Entries());
         var body = Regex.Match(html, "<table class=\"summary sortable\">.*?<tbody>(.*?)</tbody>", RegexOptions.Singleline);
         Assert.True(body.Success);
-        Assert.Equal(3, Regex.Matches(body.Groups[1].Value, "<tr>").Count);
+        Assert.Equal(3, Regex.Count(body.Groups[1].Value, "<tr>"));
         Assert.Contains("die_03_05.csv", body.Groups[1].Value, StringComparison.Ordinal);
         Assert.Contains(">2.0041 <span class=\"ci\">[1.9957, 2.0126]</span>", body.Groups[1].Value, StringComparison.Ordinal);
         Assert.Contains(">101.0 <span class=\"ci\">[97.5, 104.6]</span>", body.Groups[1].Value, StringComparison.Ordinal);
@@ -106,13 +106,23 @@ public class HtmlReportWriterTests
         string html = HtmlReportWriter.Render(Run, Entries());
         var section = Regex.Match(html, "<section class=\"fit\" id=\"fit-1\">(.*?)</section>", RegexOptions.Singleline).Groups[1].Value;
         Assert.Contains("<h3>Parameters</h3>", section, StringComparison.Ordinal);
-        Assert.Contains("µm²", section, StringComparison.Ordinal);
+        Assert.Contains("µm²", System.Net.WebUtility.HtmlDecode(section), StringComparison.Ordinal);
         Assert.Contains("<td>fixed</td>", section, StringComparison.Ordinal);
         Assert.Contains("relative step below tolerance", section, StringComparison.Ordinal);
         Assert.Contains("scaled by reduced chi-square", section, StringComparison.Ordinal);
         Assert.Contains("Wald, log-transformed", section, StringComparison.Ordinal);
         Assert.Contains("-0.930", section, StringComparison.Ordinal);
         Assert.Contains("11 points at or below the noise floor were masked", section, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Render_AreaRow_NamesTheAreaInTheUnitShown()
+    {
+        // The result keeps the area in m² (key area_m2); the report shows µm², so the row must not carry the m² key.
+        string html = System.Net.WebUtility.HtmlDecode(HtmlReportWriter.Render(Run, Entries()));
+        Assert.Contains("A <span class=\"key\">effective area</span>", html, StringComparison.Ordinal);
+        Assert.DoesNotContain("<span class=\"key\">area_m2</span>", html, StringComparison.Ordinal);
+        Assert.Matches("effective area</span></th><td class=\"num\">101[^<]*</td>.*?<td>µm²</td>", html); // 1.01e-10 m² = 101 µm²
     }
 
     [Fact]

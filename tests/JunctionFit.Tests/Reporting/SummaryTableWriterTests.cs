@@ -129,6 +129,30 @@ public class SummaryTableWriterTests
     }
 
     [Fact]
+    public void FormatConsoleTable_FreeExtraParameters_GetTheirOwnColumns()
+    {
+        // Invented values (ReportingFixtures): bdr-like Δφ and a free series resistance beside the three headline columns.
+        var extra = ReportingFixtures.OkResult() with
+        {
+            Parameters =
+            [
+                .. ReportingFixtures.OkResult().Parameters,
+                new ParameterEstimate("asymmetry_eV", "Δφ", "eV", 0.12, 0.01, 0.10, 0.14, false),
+                new ParameterEstimate("series_resistance_ohm", "R_s", "Ω", 35.0, 2.0, 31.0, 39.0, false),
+                new ParameterEstimate("voltage_offset_V", "V₀", "V", 0.0, null, null, null, true),
+            ],
+        };
+        string[] lines = SummaryTableWriter.FormatConsoleTable([ReportingFixtures.OkResult(), extra]).Split('\n');
+        Assert.Contains("asymmetry (eV)", lines[0], StringComparison.Ordinal);
+        Assert.Contains("series_resistance (ohm)", lines[0], StringComparison.Ordinal);
+        Assert.DoesNotContain("voltage_offset", lines[0], StringComparison.Ordinal); // fixed everywhere: an input, not a result
+        Assert.True(lines[0].IndexOf("area (um2)", StringComparison.Ordinal) < lines[0].IndexOf("asymmetry", StringComparison.Ordinal));
+        Assert.Contains("0.120 [0.100, 0.140]", lines[3], StringComparison.Ordinal); // two significant figures of the half-width
+        Assert.Contains("35.0 [31.0, 39.0]", lines[3], StringComparison.Ordinal);
+        Assert.DoesNotContain("[0.100", lines[2], StringComparison.Ordinal); // the plain row has no Δφ
+    }
+
+    [Fact]
     public void FormatConsoleTable_Empty_SaysSo()
     {
         Assert.Equal("(no results)\n", SummaryTableWriter.FormatConsoleTable([]));
