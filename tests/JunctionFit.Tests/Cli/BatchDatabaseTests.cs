@@ -39,7 +39,8 @@ public class BatchDatabaseTests
         var info = new ProcessStartInfo("dotnet") { RedirectStandardOutput = true, RedirectStandardError = true, UseShellExecute = false };
         foreach (var a in new[] { tool, "batch", inputDir, "--out", outDir, "--db", db, "--no-plots", "--area", "100", "--jobs", "1" }) info.ArgumentList.Add(a);
         using var process = Process.Start(info)!;
-        process.ErrorDataReceived += (_, _) => { };
+        var stderr = new System.Collections.Concurrent.ConcurrentQueue<string>();
+        process.ErrorDataReceived += (_, e) => { if (e.Data is not null) stderr.Enqueue(e.Data); };
         process.OutputDataReceived += (_, _) => { };
         process.BeginErrorReadLine();
         process.BeginOutputReadLine();
@@ -47,16 +48,17 @@ public class BatchDatabaseTests
         while (!process.HasExited && clock.Elapsed < TimeSpan.FromSeconds(120))
         {
             long n = 0;
-            try { n = storedCount(); } catch (Exception e) when (e is ResultStoreException or IOException or InvalidOperationException) { }
+            try { n = storedCount(); } catch (Exception e) when (e is ResultStoreException or IOException or InvalidOperationException or System.Data.Common.DbException) { }
             if (n >= 100) break;
             Thread.Sleep(20);
         }
-        Assert.False(process.HasExited, "the batch finished (or failed) before it could be killed mid-run");
+        Assert.False(process.HasExited, "the batch finished (or failed) before it could be killed mid-run: exit "
+            + (process.HasExited ? process.ExitCode.ToString(CultureInfo.InvariantCulture) : "-") + "; " + string.Join(" | ", stderr.TakeLast(5)));
         process.Kill(entireProcessTree: true); // SIGKILL on Linux
         process.WaitForExit();
         Assert.Equal(137, process.ExitCode);
         long stored = storedCount();
-        Assert.InRange(stored, 100, Files - 1);
+        Assert.True(stored >= 100 && stored < Files, $"stored {stored} of {Files} at the kill; {string.Join(" | ", stderr.TakeLast(5))}");
     }
 
     private static void RunTwiceMoreAndCheck(TempFolder dir, string input, string outDir, string db, string lot)
