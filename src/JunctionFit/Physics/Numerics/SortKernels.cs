@@ -82,23 +82,8 @@ internal static class SortKernels
         int lo = 0, hi = a.Length - 1;
         while (hi - lo > InsertionLimit)
         {
-            int mid = lo + (hi - lo) / 2;
-            if (a[mid] < a[lo]) (a[mid], a[lo]) = (a[lo], a[mid]);
-            if (a[hi] < a[lo]) (a[hi], a[lo]) = (a[lo], a[hi]);
-            if (a[hi] < a[mid]) (a[hi], a[mid]) = (a[mid], a[hi]);
-            double pivot = a[mid];
-            int i = lo, j = hi;
-            while (i <= j)
-            {
-                while (a[i] < pivot) i++;
-                while (a[j] > pivot) j--;
-                if (i <= j)
-                {
-                    (a[i], a[j]) = (a[j], a[i]);
-                    i++;
-                    j--;
-                }
-            }
+            var (leftEnd, rightStart) = Partition(a[lo..(hi + 1)]);
+            int j = lo + leftEnd, i = lo + rightStart;
             // [lo, j] ≤ pivot, (j, i) = pivot, [i, hi] ≥ pivot
             if (k <= j) hi = j;
             else if (k >= i) lo = i;
@@ -164,24 +149,8 @@ internal static class SortKernels
                 HeapSort(a);
                 return;
             }
-            int hi = a.Length - 1, mid = hi / 2;
-            if (a[mid] < a[0]) (a[mid], a[0]) = (a[0], a[mid]);
-            if (a[hi] < a[0]) (a[hi], a[0]) = (a[0], a[hi]);
-            if (a[hi] < a[mid]) (a[hi], a[mid]) = (a[mid], a[hi]);
-            double pivot = a[mid];
-            int i = 0, j = hi;
-            while (i <= j)
-            {
-                while (a[i] < pivot) i++;
-                while (a[j] > pivot) j--;
-                if (i <= j)
-                {
-                    (a[i], a[j]) = (a[j], a[i]);
-                    i++;
-                    j--;
-                }
-            }
-            // [0, j] ≤ pivot ≤ [i, hi]
+            var (j, i) = Partition(a);
+            // [0, j] ≤ pivot ≤ [i, end]
             if (j + 1 < a.Length - i)
             {
                 QuickSort(a[..(j + 1)], depth);
@@ -194,6 +163,32 @@ internal static class SortKernels
             }
         }
         InsertionSort(a);
+    }
+
+    /// <summary>
+    /// Hoare partition of <paramref name="a"/> (no NaN, at least 3 values) around the median of its first, middle and last
+    /// values: afterwards [0, LeftEnd] ≤ pivot, (LeftEnd, RightStart) = pivot and [RightStart, end] ≥ pivot.
+    /// </summary>
+    private static (int LeftEnd, int RightStart) Partition(Span<double> a)
+    {
+        int hi = a.Length - 1, mid = hi / 2;
+        if (a[mid] < a[0]) (a[mid], a[0]) = (a[0], a[mid]);
+        if (a[hi] < a[0]) (a[hi], a[0]) = (a[0], a[hi]);
+        if (a[hi] < a[mid]) (a[hi], a[mid]) = (a[mid], a[hi]);
+        double pivot = a[mid];
+        int i = 0, j = hi;
+        while (i <= j)
+        {
+            while (a[i] < pivot) i++;
+            while (a[j] > pivot) j--;
+            if (i <= j)
+            {
+                (a[i], a[j]) = (a[j], a[i]);
+                i++;
+                j--;
+            }
+        }
+        return (j, i);
     }
 
     private static void InsertionSort(Span<double> a)
