@@ -14,7 +14,10 @@ namespace JunctionFit.Tests.Cli;
 /// </summary>
 public class BatchDatabaseTests
 {
-    private const int Files = 400;
+    // The batch stores in chunks of up to 256 files (SharedWork.MaxBlock), so the stored count jumps by a chunk. With 400 files
+    // the kill after the first chunk raced the end of the run (once the batch finished first: exit 0, not 137); with 1200 files
+    // it lands with more than 900 files still to fit.
+    private const int Files = 1200;
 
     private static void MakeFiles(string folder, string lot)
     {
