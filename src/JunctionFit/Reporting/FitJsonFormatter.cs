@@ -74,23 +74,7 @@ public static class FitJsonFormatter
         }
         w.WriteEndObject();
 
-        w.WriteStartObject("correlation");
-        w.WriteStartArray("parameters");
-        foreach (var k in result.CorrelationKeys) w.WriteStringValue(k);
-        w.WriteEndArray();
-        w.WriteStartArray("matrix");
-        int nk = result.CorrelationKeys.Length;
-        if (result.CorrelationRowMajor.Length == nk * nk)
-        {
-            for (int a = 0; a < nk; a++)
-            {
-                w.WriteStartArray();
-                for (int b = 0; b < nk; b++) w.WriteNumberValueOrNull(Math.Round(result.CorrelationRowMajor[a * nk + b], 6));
-                w.WriteEndArray();
-            }
-        }
-        w.WriteEndArray();
-        w.WriteEndObject();
+        w.WriteCorrelation(result.CorrelationKeys, result.CorrelationKeys.Length, result.CorrelationRowMajor.AsSpan());
 
         w.WriteStartArray("diagnoses");
         foreach (string d in result.Diagnoses) w.WriteStringValue(d);

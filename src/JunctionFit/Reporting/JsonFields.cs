@@ -32,4 +32,28 @@ internal static class JsonFields
         if (value is null) w.WriteNull(name);
         else w.WriteString(name, value);
     }
+
+    /// <summary>
+    /// Writes the object <c>"correlation": {"parameters": [keys], "matrix": [[…], …]}</c>; the matrix rows are rounded to 6
+    /// digits, non-finite entries are null, and the matrix is empty when <paramref name="rowMajor"/> is not keys × keys.
+    /// </summary>
+    public static void WriteCorrelation(this Utf8JsonWriter w, IEnumerable<string> keys, int keyCount, ReadOnlySpan<double> rowMajor)
+    {
+        w.WriteStartObject("correlation");
+        w.WriteStartArray("parameters");
+        foreach (string k in keys) w.WriteStringValue(k);
+        w.WriteEndArray();
+        w.WriteStartArray("matrix");
+        if (rowMajor.Length == keyCount * keyCount)
+        {
+            for (int a = 0; a < keyCount; a++)
+            {
+                w.WriteStartArray();
+                for (int b = 0; b < keyCount; b++) w.WriteNumberValueOrNull(Math.Round(rowMajor[a * keyCount + b], 6));
+                w.WriteEndArray();
+            }
+        }
+        w.WriteEndArray();
+        w.WriteEndObject();
+    }
 }

@@ -63,23 +63,7 @@ public static class PlanFormatter
                 w.WriteStartObject("predicted");
                 foreach (var q in p.Parameters) WritePrediction(w, q, q.RelativeHalfWidth95, null);
                 w.WriteEndObject();
-                w.WriteStartObject("correlation");
-                w.WriteStartArray("parameters");
-                foreach (var q in p.Parameters) w.WriteStringValue(q.Key);
-                w.WriteEndArray();
-                w.WriteStartArray("matrix");
-                int n = p.Parameters.Length;
-                if (p.Correlation.Length == n * n)
-                {
-                    for (int a = 0; a < n; a++)
-                    {
-                        w.WriteStartArray();
-                        for (int b = 0; b < n; b++) w.WriteNumberValue(Math.Round(p.Correlation[a * n + b], 6));
-                        w.WriteEndArray();
-                    }
-                }
-                w.WriteEndArray();
-                w.WriteEndObject();
+                w.WriteCorrelation(p.Parameters.Select(q => q.Key), p.Parameters.Length, p.Correlation.AsSpan());
                 WriteIdentifiability(w, p.IsIdentifiable, p.Reasons);
                 w.WriteNumber("condition_number", double.IsFinite(p.ConditionNumber) ? p.ConditionNumber : -1);
             }
