@@ -118,7 +118,7 @@ public class ModelConstantsTests
     {
         double t = xNm / dNm;
         double strength = 1.439964 / (4.0 * eps * dNm);
-        return phiEv + strength * (MathNet.Numerics.SpecialFunctions.DiGamma(t) + MathNet.Numerics.SpecialFunctions.DiGamma(1 - t) + 2 * 0.5772156649015329);
+        return phiEv + strength * (MathNet.Numerics.SpecialFunctions.DiGamma(t) + MathNet.Numerics.SpecialFunctions.DiGamma(1 - t) + 2 * MathNet.Numerics.Constants.EulerMascheroni);
     }
 
     [Theory]
