@@ -1,6 +1,7 @@
 using System.Diagnostics;
 using System.Globalization;
 using System.Text;
+using System.Text.RegularExpressions;
 using JunctionFit.Physics;
 using JunctionFit.Storage;
 using JunctionFit.Tests.Storage;
@@ -14,9 +15,8 @@ namespace JunctionFit.Tests.Cli;
 /// </summary>
 public class BatchDatabaseTests
 {
-    // The batch stores in chunks of up to 256 files (SharedWork.MaxBlock), so the stored count jumps by a chunk. With 400 files
-    // the kill after the first chunk raced the end of the run (once the batch finished first: exit 0, not 137); with 1200 files
-    // it lands with more than 900 files still to fit.
+    // The batch stores in chunks of up to 256 files (SharedWork.MaxBlock) and reports progress every tenth of the files;
+    // 1200 files give several chunks and progress lines before the end.
     private const int Files = 1200;
 
     private static void MakeFiles(string folder, string lot)
@@ -34,8 +34,11 @@ public class BatchDatabaseTests
         }
     }
 
-    /// <summary>Starts a batch, kills it (SIGKILL) once it has stored 100 files, and asserts that the kill really happened
-    /// mid-run: exit code 137 (128 + SIGKILL) and a partial count, at least 100 and fewer than all files.</summary>
+    /// <summary>Starts a batch and kills it (SIGKILL) mid-run, then asserts that the kill really happened mid-run: exit code
+    /// 137 (128 + SIGKILL) and a partial count, at least 100 and fewer than all files. At each of the batch's progress lines
+    /// it is stopped (SIGSTOP) and the database is read; it goes on (SIGCONT) until 100 files are stored, and is killed while
+    /// stopped, so it cannot finish between the read and the kill (reading while it ran, the kill came too late twice on the
+    /// clean-clone CI: exit 0).</summary>
     private static void KillMidRun(string inputDir, string outDir, string db, Func<long> storedCount)
     {
         string tool = Path.Combine(AppContext.BaseDirectory, "junctionfit.dll");
@@ -43,25 +46,34 @@ public class BatchDatabaseTests
         foreach (var a in new[] { tool, "batch", inputDir, "--out", outDir, "--db", db, "--no-plots", "--area", "100", "--jobs", "1" }) info.ArgumentList.Add(a);
         using var process = Process.Start(info)!;
         var stderr = new System.Collections.Concurrent.ConcurrentQueue<string>();
-        process.ErrorDataReceived += (_, e) => { if (e.Data is not null) stderr.Enqueue(e.Data); };
+        using var stopped = new SemaphoreSlim(0);
+        process.ErrorDataReceived += (_, e) =>
+        {
+            if (e.Data is null) return;
+            stderr.Enqueue(e.Data);
+            if (!Regex.IsMatch(e.Data, @"batch: \d+/\d+ files")) return;
+            BatchSharedWorkTests.Signal("STOP", process.Id);
+            stopped.Release();
+        };
         process.OutputDataReceived += (_, _) => { };
         process.BeginErrorReadLine();
         process.BeginOutputReadLine();
-        var clock = Stopwatch.StartNew(); // a deadline for the poll, not a timed assertion
-        while (!process.HasExited && clock.Elapsed < TimeSpan.FromSeconds(120))
+        var clock = Stopwatch.StartNew(); // a deadline for the wait, not a timed assertion
+        long n = 0;
+        while (!process.HasExited && clock.Elapsed < TimeSpan.FromSeconds(300))
         {
-            long n = 0;
-            try { n = storedCount(); } catch (Exception e) when (e is ResultStoreException or IOException or InvalidOperationException or System.Data.Common.DbException) { }
+            if (!stopped.Wait(TimeSpan.FromMilliseconds(200))) continue;
+            try { n = storedCount(); } catch (Exception e) when (e is ResultStoreException or IOException or InvalidOperationException or System.Data.Common.DbException) { n = 0; }
             if (n >= 100) break;
-            Thread.Sleep(20);
+            BatchSharedWorkTests.Signal("CONT", process.Id);
         }
         Assert.False(process.HasExited, "the batch finished (or failed) before it could be killed mid-run: exit "
             + (process.HasExited ? process.ExitCode.ToString(CultureInfo.InvariantCulture) : "-") + "; " + string.Join(" | ", stderr.TakeLast(5)));
-        process.Kill(entireProcessTree: true); // SIGKILL on Linux
+        process.Kill(entireProcessTree: true); // SIGKILL on Linux, also to a stopped process
         process.WaitForExit();
         Assert.Equal(137, process.ExitCode);
         long stored = storedCount();
-        Assert.True(stored >= 100 && stored < Files, $"stored {stored} of {Files} at the kill; {string.Join(" | ", stderr.TakeLast(5))}");
+        Assert.True(stored >= 100 && stored < Files, $"stored {stored} of {Files} at the kill (read {n} while stopped); {string.Join(" | ", stderr.TakeLast(5))}");
     }
 
     private static void RunTwiceMoreAndCheck(TempFolder dir, string input, string outDir, string db, string lot)
