@@ -19,13 +19,17 @@ public class BatchDatabaseTests
     // 1200 files give several chunks and progress lines before the end.
     private const int Files = 1200;
 
+    // 801 points a file make each fit slow enough that the batch runs for seconds and its progress lines (every tenth of the
+    // files) come while it runs; with 81 points the Debug build on CI fitted all 1200 files before the first line was read.
+    private const int PointsPerFile = 801;
+
     private static void MakeFiles(string folder, string lot)
     {
         var model = new JunctionCurrentModel(SimmonsRectangularModel.Instance);
         for (int k = 0; k < Files; k++)
         {
             double[] theta = [(1.9 + 0.0005 * k) * PhysicalConstants.JoulePerElectronVolt, 1.5e-9, 1.0, 100e-12];
-            var (v, i) = IvSimulator.Simulate(model, theta, new SimulationSpec(-0.8, 0.8, 81) { RelativeNoise = 0.01, Seed = k + 1 });
+            var (v, i) = IvSimulator.Simulate(model, theta, new SimulationSpec(-0.8, 0.8, PointsPerFile) { RelativeNoise = 0.01, Seed = k + 1 });
             var sb = new StringBuilder($"# lot: {lot}\n# wafer: W01\n# die: {k % 20},{k / 20}\nVoltage (V),Current (A)\n");
             for (int p = 0; p < v.Length; p++) sb.Append(v[p].ToString("R", CultureInfo.InvariantCulture)).Append(',').Append(i[p].ToString("R", CultureInfo.InvariantCulture)).Append('\n');
             string sub = Path.Combine(folder, $"part{k / 100}");
