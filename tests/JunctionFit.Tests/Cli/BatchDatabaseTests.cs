@@ -11,8 +11,10 @@ namespace JunctionFit.Tests.Cli;
 
 /// <summary>
 /// A batch killed with SIGKILL mid-run and run twice more holds each file exactly once, in the database and in
-/// results.csv, and <c>results --db</c> reads them back — on SQLite and on the PostgreSQL test server.
+/// results.csv, and <c>results --db</c> reads them back — on SQLite and on the PostgreSQL test server. In the machine-bound
+/// collection, so the batch is not starved by the other tests' parallel fits while the test waits for its progress lines.
 /// </summary>
+[Collection(MachineBoundCollection.Name)]
 public class BatchDatabaseTests
 {
     // The batch stores in chunks of up to 256 files (SharedWork.MaxBlock) and reports progress every tenth of the files;
@@ -51,17 +53,21 @@ public class BatchDatabaseTests
         using var process = Process.Start(info)!;
         var stderr = new System.Collections.Concurrent.ConcurrentQueue<string>();
         using var stopped = new SemaphoreSlim(0);
-        process.ErrorDataReceived += (_, e) =>
+        // Both pipes are read on threads of their own, not by the thread pool's event readers: on the clean-clone CI the
+        // pool was busy with other tests' parallel fits and no progress line reached the test before the batch ended (exit 0).
+        var readErr = new Thread(() =>
         {
-            if (e.Data is null) return;
-            stderr.Enqueue(e.Data);
-            if (!Regex.IsMatch(e.Data, @"batch: \d+/\d+ files")) return;
-            BatchSharedWorkTests.Signal("STOP", process.Id);
-            stopped.Release();
-        };
-        process.OutputDataReceived += (_, _) => { };
-        process.BeginErrorReadLine();
-        process.BeginOutputReadLine();
+            while (process.StandardError.ReadLine() is { } line)
+            {
+                stderr.Enqueue(line);
+                if (!Regex.IsMatch(line, @"batch: \d+/\d+ files")) continue;
+                BatchSharedWorkTests.Signal("STOP", process.Id);
+                stopped.Release();
+            }
+        }) { IsBackground = true };
+        var readOut = new Thread(() => process.StandardOutput.ReadToEnd()) { IsBackground = true };
+        readErr.Start();
+        readOut.Start();
         var clock = Stopwatch.StartNew(); // a deadline for the wait, not a timed assertion
         long n = 0;
         while (!process.HasExited && clock.Elapsed < TimeSpan.FromSeconds(300))
@@ -75,6 +81,8 @@ public class BatchDatabaseTests
             + (process.HasExited ? process.ExitCode.ToString(CultureInfo.InvariantCulture) : "-") + "; " + string.Join(" | ", stderr.TakeLast(5)));
         process.Kill(entireProcessTree: true); // SIGKILL on Linux, also to a stopped process
         process.WaitForExit();
+        readErr.Join();
+        readOut.Join();
         Assert.Equal(137, process.ExitCode);
         long stored = storedCount();
         Assert.True(stored >= 100 && stored < Files, $"stored {stored} of {Files} at the kill (read {n} while stopped); {string.Join(" | ", stderr.TakeLast(5))}");

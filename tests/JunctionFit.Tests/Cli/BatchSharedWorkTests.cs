@@ -95,7 +95,6 @@ public partial class BatchSharedWorkTests
         }
     }
 
-    /// <summary>Sends a signal (STOP, CONT) to a process with the system's kill command and waits for it.</summary>
     /// <summary>Sends the signal <paramref name="name"/> (STOP, CONT, …) to process <paramref name="pid"/> with kill(1).</summary>
     internal static void Signal(string name, int pid)
     {
