@@ -1,5 +1,6 @@
 using System.Text;
 using JunctionFit.Common;
+using JunctionFit.Reporting;
 using JunctionFit.Results;
 
 namespace JunctionFit.Cli;
@@ -26,6 +27,8 @@ internal static class OptionWords
             RemedyKind.VoltageUnit => "--voltage-unit",
             RemedyKind.CurrentUnit => "--current-unit",
             RemedyKind.CurrentColumn => "--current-column",
+            RemedyKind.VoltageColumn => "--voltage-column",
+            RemedyKind.ReadAsCv => "--cv",
             RemedyKind.MisfitTolerance => "--misfit-tolerance",
             RemedyKind.Noise => "--noise",
             RemedyKind.KeepCompliance => "--keep-compliance",
@@ -56,6 +59,22 @@ internal static class OptionWords
             Warnings = [.. result.Warnings.Select(w => Word(w)!)],
             Diagnoses = [.. result.Diagnoses.Select(d => Word(d)!)],
             Quality = result.Quality is { NoiseFloorDescription: { } description } q ? q with { NoiseFloorDescription = Word(description) } : result.Quality,
+        };
+    }
+
+    /// <summary>Every text of a report section worded as options (a section the library built from messages, before it is written).</summary>
+    public static HtmlReportSection Word(HtmlReportSection section)
+    {
+        ArgumentNullException.ThrowIfNull(section);
+        return section with
+        {
+            Paragraphs = [.. section.Paragraphs.Select(p => Word(p)!)],
+            Tables = [.. section.Tables.Select(t => t with
+            {
+                Caption = Word(t.Caption)!,
+                Rows = [.. t.Rows.Select(r => (IReadOnlyList<string>)[.. r.Select(cell => Word(cell)!)])],
+            })],
+            Images = [.. section.Images.Select(i => i with { Caption = Word(i.Caption)! })],
         };
     }
 

@@ -240,7 +240,7 @@ internal static class BatchCommand
             ResultsFileName = ResultsCsv.FileName,
             RefitAdvice = "fit them with --free leakage-conductance or --free series-resistance",
             OutlierRefitAdvice = "refit with --free leakage-conductance or --free series-resistance",
-            ExtraSections = s.ExtraSections,
+            ExtraSections = s.ExtraSections is { } extra ? batchRows => [.. extra(batchRows).Select(OptionWords.Word)] : null,
         });
         foreach (var o in report.Outliers)
         {

@@ -12,7 +12,8 @@ namespace JunctionFit.Cli.Commands;
 /// </summary>
 internal static class LotAnalysisRun
 {
-    /// <summary><see cref="LotAnalyses.Drift"/>, with options that do not fit the rows as a usage error.</summary>
+    /// <summary><see cref="LotAnalyses.Drift"/>, with a reference lot that is not in the rows as a usage error naming <c>--reference</c>
+    /// (the only <see cref="ArgumentException"/> the analysis throws, <see cref="DriftAnalysis.Compute"/>).</summary>
     public static (DriftResult Result, HtmlReportSection Section, List<string> Charts) Drift(IReadOnlyList<ResultRow> rows, DriftOptions options, string outDir)
     {
         try
@@ -21,7 +22,7 @@ internal static class LotAnalysisRun
         }
         catch (ArgumentException e)
         {
-            throw new UsageException($"drift: {CliApp.WithoutParameterName(e.Message)}");
+            throw new UsageException($"--reference: {CliApp.WithoutParameterName(e.Message)}");
         }
     }
 

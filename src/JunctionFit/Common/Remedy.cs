@@ -35,6 +35,12 @@ public enum RemedyKind
     /// <summary>Choose the current column.</summary>
     CurrentColumn,
 
+    /// <summary>Choose the voltage column.</summary>
+    VoltageColumn,
+
+    /// <summary>Give the file as the capacitance–voltage file of the gate stack (not as an I–V file).</summary>
+    ReadAsCv,
+
     /// <summary>Set the tolerance on the systematic misfit.</summary>
     MisfitTolerance,
 
@@ -84,6 +90,15 @@ public readonly record struct Remedy(RemedyKind Kind, string? Argument = null)
 
     /// <summary>Fix the area at each file's stated area.</summary>
     public static Remedy AreaFromFile => new(RemedyKind.AreaFromFile);
+
+    /// <summary>Choose the voltage column.</summary>
+    public static Remedy VoltageColumn => new(RemedyKind.VoltageColumn);
+
+    /// <summary>Choose the current column.</summary>
+    public static Remedy CurrentColumn => new(RemedyKind.CurrentColumn);
+
+    /// <summary>Read the file as a capacitance–voltage file.</summary>
+    public static Remedy ReadAsCv => new(RemedyKind.ReadAsCv);
 
     /// <summary>Fit a bias window.</summary>
     public static Remedy BiasWindow => new(RemedyKind.BiasWindow);

@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using System.Runtime.InteropServices;
+using JunctionFit.Common;
 
 namespace JunctionFit.Import;
 
@@ -456,7 +457,7 @@ internal static class IvTableParser
                 }
                 if (options.VoltageColumn is null || options.CurrentColumn is null)
                 {
-                    _warnings.Add($"no header row: column {v + 1} read as voltage and column {c + 1} as current (choose others with --voltage-column and --current-column)");
+                    _warnings.Add($"no header row: column {v + 1} read as voltage and column {c + 1} as current (choose others with {Remedy.VoltageColumn} and {Remedy.CurrentColumn})");
                 }
             }
             else
@@ -497,7 +498,7 @@ internal static class IvTableParser
                 }
                 if (v < 0)
                 {
-                    throw new IvFormatException(path, line, $"no voltage column among {ListColumns(header)}; choose it with --voltage-column (a header name or a 1-based number)");
+                    throw new IvFormatException(path, line, $"no voltage column among {ListColumns(header)}; choose it with {Remedy.VoltageColumn} (a header name or a 1-based number)");
                 }
                 if (c < 0)
                 {
@@ -505,10 +506,10 @@ internal static class IvTableParser
                     if (cap is not null)
                     {
                         throw new IvFormatException(path, line,
-                            $"no current column among {ListColumns(header)}: this looks like a capacitance–voltage file ({cap.Name} in {cap.UnitText ?? "F"}); use --cv to read it as a C–V file, or choose a current column with --current-column",
+                            $"no current column among {ListColumns(header)}: this looks like a capacitance–voltage file ({cap.Name} in {cap.UnitText ?? "F"}); use {Remedy.ReadAsCv} to read it as a C–V file, or choose a current column with {Remedy.CurrentColumn}",
                             cap.Index + 1, cap.Text);
                     }
-                    throw new IvFormatException(path, line, $"no current column among {ListColumns(header)}; choose it with --current-column (a header name or a 1-based number)");
+                    throw new IvFormatException(path, line, $"no current column among {ListColumns(header)}; choose it with {Remedy.CurrentColumn} (a header name or a 1-based number)");
                 }
             }
             if (v == c)
@@ -525,7 +526,7 @@ internal static class IvTableParser
                 densityByName ? UnitScale.AmperePerSquareCentimetre : UnitScale.Ampere);
             if (densityByName && options.CurrentUnit is null)
             {
-                _warnings.Add($"current density column '{cf!.Text}' has no unit; read as A/cm² (set --current-unit otherwise)");
+                _warnings.Add($"current density column '{cf!.Text}' has no unit; read as A/cm² (set {new Remedy(RemedyKind.CurrentUnit)} otherwise)");
             }
             bool absolute = cf is not null && cf.Kind is IvColumnKind.AbsoluteCurrent or IvColumnKind.AbsoluteCurrentDensity;
             if (absolute)
@@ -540,7 +541,7 @@ internal static class IvTableParser
                 if (knownArea is not double known)
                 {
                     throw new IvFormatException(path, line,
-                        $"column '{cf?.Text ?? (c + 1).ToString(System.Globalization.CultureInfo.InvariantCulture)}' holds current density but the file states no area; add an 'area' line to the preamble (e.g. '# area: 100 um2'), or choose a current column with --current-column");
+                        $"column '{cf?.Text ?? (c + 1).ToString(System.Globalization.CultureInfo.InvariantCulture)}' holds current density but the file states no area; add an 'area' line to the preamble (e.g. '# area: 100 um2'), or choose a current column with {Remedy.CurrentColumn}");
                 }
                 area = known;
             }
@@ -593,11 +594,11 @@ internal static class IvTableParser
                 string reason;
                 if (k == v)
                 {
-                    reason = vForced ? "chosen with --voltage-column" : f is null ? "by position (no header)" : f.How;
+                    reason = vForced ? $"chosen with {Remedy.VoltageColumn}" : f is null ? "by position (no header)" : f.How;
                 }
                 else if (k == c)
                 {
-                    reason = (cForced ? "chosen with --current-column" : f is null ? "by position (no header)" : f.How + currentNote)
+                    reason = (cForced ? $"chosen with {Remedy.CurrentColumn}" : f is null ? "by position (no header)" : f.How + currentNote)
                         + (absolute ? "; sign taken from the bias" : string.Empty)
                         + (density ? string.Create(System.Globalization.CultureInfo.InvariantCulture, $"; times the area {area:G5} m²") : string.Empty);
                 }
@@ -642,7 +643,7 @@ internal static class IvTableParser
                     }
                     _warnings.Add($"columns by name: voltage '{vf?.Text}' ({v + 1}), {(density ? "current density" : "current")} '{cf?.Text}' ({c + 1})"
                         + (ignored.Count > 0 ? "; ignored: " + string.Join(", ", ignored) : string.Empty)
-                        + "; if this is wrong, choose with --voltage-column and --current-column");
+                        + $"; if this is wrong, choose with {Remedy.VoltageColumn} and {Remedy.CurrentColumn}");
                 }
             }
             _warnings.AddRange(notes);
@@ -697,7 +698,7 @@ internal static class IvTableParser
                 {
                     HeaderField g = gates[0];
                     note = "; the gate current, preferred among the terminal currents";
-                    notes.Add($"several terminal currents ({string.Join(", ", terminals.ConvertAll(t => t.Text))}): the gate current '{g.Text}' (column {g.Index + 1}) is read, the tunnelling current through a gate oxide; choose another with --current-column");
+                    notes.Add($"several terminal currents ({string.Join(", ", terminals.ConvertAll(t => t.Text))}): the gate current '{g.Text}' (column {g.Index + 1}) is read, the tunnelling current through a gate oxide; choose another with {Remedy.CurrentColumn}");
                     return g.Index;
                 }
                 int best = Best(header, f => f.Kind == IvColumnKind.Current, "current", v, line);
@@ -742,7 +743,7 @@ internal static class IvTableParser
             if (f.Unit is not UnitScale u)
             {
                 throw new IvFormatException(path, line,
-                    $"unknown unit '{MetadataParser.Short(f.UnitText)}' in {what} column '{MetadataParser.Short(f.Text)}'; units read are V with p/n/u/µ/m/k prefixes, A likewise, A/cm², mA/cm², A/m² (or set {(a == QuantityKind.Voltage ? "--voltage-unit" : "--current-unit")})",
+                    $"unknown unit '{MetadataParser.Short(f.UnitText)}' in {what} column '{MetadataParser.Short(f.Text)}'; units read are V with p/n/u/µ/m/k prefixes, A likewise, A/cm², mA/cm², A/m² (or set {new Remedy(a == QuantityKind.Voltage ? RemedyKind.VoltageUnit : RemedyKind.CurrentUnit)})",
                     f.Index + 1, f.Text);
             }
             if (u.Kind != a && u.Kind != b)
@@ -807,7 +808,7 @@ internal static class IvTableParser
                 else if (f.Rank == header[best].Rank)
                 {
                     throw new IvFormatException(path, line,
-                        $"columns {best + 1} ('{header[best].Text}') and {f.Index + 1} ('{f.Text}') could both be the {what}; choose one with {(what == "voltage" ? "--voltage-column" : "--current-column")}",
+                        $"columns {best + 1} ('{header[best].Text}') and {f.Index + 1} ('{f.Text}') could both be the {what}; choose one with {(what == "voltage" ? Remedy.VoltageColumn : Remedy.CurrentColumn)}",
                         f.Index + 1, f.Text);
                 }
             }

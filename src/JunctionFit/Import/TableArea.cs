@@ -1,4 +1,5 @@
 using System.Globalization;
+using JunctionFit.Common;
 
 namespace JunctionFit.Import;
 
@@ -39,7 +40,7 @@ internal static class TableArea
             }
             return (stated, source);
         }
-        warnings.Add($"area {derived}; used as the file's area (for --area-from-file)");
+        warnings.Add($"area {derived}; used as the file's area (for {Remedy.AreaFromFile})");
         return (ratio, "I/J of " + plan.PairText);
     }
 }

@@ -16,12 +16,6 @@ namespace JunctionFit.Tests.Architecture;
 /// </summary>
 public class OptionNameTests
 {
-    /// <summary>
-    /// Types whose messages still name options: the I–V table parser (IvTableParser and TableArea, split from it on the polish branch)
-    /// (issue 14, item 4); its messages move to remedies after the split. Nothing else may join this list.
-    /// </summary>
-    private static readonly string[] NotYetConverted = ["JunctionFit.Import.IvTableParser", "JunctionFit.Import.TableArea"];
-
     private static IReadOnlyList<string> OptionNames()
     {
         var names = new SortedSet<string>(StringComparer.Ordinal);
@@ -69,18 +63,16 @@ public class OptionNameTests
             return false;
         });
 
-    private static List<string> Offences(string assemblyPath, Func<string, bool> skipType)
+    private static List<string> Offences(string assemblyPath)
     {
         var options = OptionNames();
-        return [.. Strings(assemblyPath).Where(s => !skipType(s.Type)).SelectMany(s => Named(s.Text, options).Select(o => $"{s.Type}: {o} in \"{s.Text}\""))];
+        return [.. Strings(assemblyPath).SelectMany(s => Named(s.Text, options).Select(o => $"{s.Type}: {o} in \"{s.Text}\""))];
     }
-
-    private static bool IsNotYetConverted(string type) => NotYetConverted.Any(p => type == p || type.StartsWith(p + "/", StringComparison.Ordinal));
 
     [Fact]
     public void LibraryStrings_NameNoCommandLineOption()
     {
-        var offences = Offences(typeof(FitOptions).Assembly.Location, IsNotYetConverted);
+        var offences = Offences(typeof(FitOptions).Assembly.Location);
         Assert.True(offences.Count == 0, "the library names command-line options (write a Remedy instead):\n" + string.Join("\n", offences));
     }
 
@@ -88,18 +80,9 @@ public class OptionNameTests
     public void OptionScan_PointedAtTheCli_FindsItsOwnOptions()
     {
         // The scanner can fail: the CLI's own strings name options (its messages and the words of the remedies).
-        var offences = Offences(typeof(CliApp).Assembly.Location, _ => false);
+        var offences = Offences(typeof(CliApp).Assembly.Location);
         Assert.Contains(offences, o => o.StartsWith("JunctionFit.Cli.OptionWords", StringComparison.Ordinal) && o.Contains("--area-from-file", StringComparison.Ordinal));
         Assert.True(OptionNames().Count > 40, "the command tree lists its options");
-    }
-
-    [Fact]
-    public void OptionScan_OnTheLibrary_SeesTheTypesNotYetConverted()
-    {
-        // The scan reads the library's strings too: the one type still listed holds option names, so the list is not stale.
-        var offences = Offences(typeof(FitOptions).Assembly.Location, _ => false);
-        Assert.All(NotYetConverted, t => Assert.Contains(offences, o => o.StartsWith(t, StringComparison.Ordinal)));
-        Assert.DoesNotContain(offences, o => o.Contains("var(--", StringComparison.Ordinal)); // the report's CSS custom properties are no options
     }
 
     [Fact]

@@ -66,6 +66,20 @@ public class OptionMessageTests
         Assert.False(Directory.Exists(outDir));
     }
 
+    /// <summary>Invented rows in the layout of results.csv (docs/file-formats.md): lots KM-C01 and KM-C02 of five good dies.</summary>
+    private static string TwoLots(TempFolder dir)
+    {
+        var lines = new List<string>
+        {
+            "file,lot,wafer,die_x,die_y,model,status,barrier_height_eV,barrier_height_eV_stderr,barrier_height_eV_lo,barrier_height_eV_hi,thickness_nm,thickness_nm_stderr,thickness_nm_lo,thickness_nm_hi,area_m2,area_m2_stderr,area_m2_lo,area_m2_hi,mass_ratio,mass_ratio_stderr,mass_ratio_lo,mass_ratio_hi,reduced_chi2,transition_voltage_V,warnings,error",
+        };
+        for (int k = 0; k < 5; k++) lines.Add($"a{k}.csv,KM-C01,W01,{k},0,simmons,ok,{2.0 + 0.01 * k},0.004,1.99,2.01,1.5,0.002,1.49,1.51,1E-10,,,,1,,,,1.0,,,");
+        for (int k = 0; k < 5; k++) lines.Add($"b{k}.csv,KM-C02,W01,{k},0,simmons,ok,{2.1 + 0.01 * k},0.004,2.09,2.11,1.5,0.002,1.49,1.51,1E-10,,,,1,,,,1.0,,,");
+        string path = dir.File("results.csv");
+        File.WriteAllLines(path, lines);
+        return path;
+    }
+
     [Theory]
     [InlineData("--alpha", "2")]
     [InlineData("--alpha", "0")]
@@ -73,16 +87,17 @@ public class OptionMessageTests
     public void Drift_RefusedSetting_Exit2NamingTheOptionAndValue(string option, string value)
     {
         using var dir = new TempFolder();
-        // Invented rows in the layout of results.csv (docs/file-formats.md): two lots of five good dies.
-        var lines = new List<string>
-        {
-            "file,lot,wafer,die_x,die_y,model,status,barrier_height_eV,barrier_height_eV_stderr,barrier_height_eV_lo,barrier_height_eV_hi,thickness_nm,thickness_nm_stderr,thickness_nm_lo,thickness_nm_hi,area_m2,area_m2_stderr,area_m2_lo,area_m2_hi,mass_ratio,mass_ratio_stderr,mass_ratio_lo,mass_ratio_hi,reduced_chi2,transition_voltage_V,warnings,error",
-        };
-        for (int k = 0; k < 5; k++) lines.Add($"a{k}.csv,KM-C01,W01,{k},0,simmons,ok,{2.0 + 0.01 * k},0.004,1.99,2.01,1.5,0.002,1.49,1.51,1E-10,,,,1,,,,1.0,,,");
-        for (int k = 0; k < 5; k++) lines.Add($"b{k}.csv,KM-C02,W01,{k},0,simmons,ok,{2.1 + 0.01 * k},0.004,2.09,2.11,1.5,0.002,1.49,1.51,1E-10,,,,1,,,,1.0,,,");
-        File.WriteAllLines(dir.File("results.csv"), lines);
-        var (code, _, err) = CliRunner.Run("drift", dir.File("results.csv"), "--reference", "KM-C01", option, value);
+        var (code, _, err) = CliRunner.Run("drift", TwoLots(dir), "--reference", "KM-C01", option, value);
         AssertNamesOption(code, err, option);
         Assert.Contains($"{option}: {value} must", err, StringComparison.Ordinal);
+    }
+
+    [Fact]
+    public void Drift_UnknownReferenceLot_Exit2NamingReferenceAndTheLotsPresent()
+    {
+        using var dir = new TempFolder();
+        var (code, _, err) = CliRunner.Run("drift", TwoLots(dir), "--reference", "KM-C09");
+        AssertNamesOption(code, err, "--reference");
+        Assert.Contains("'KM-C09' is not in the results (lots present: KM-C01, KM-C02)", err, StringComparison.Ordinal);
     }
 }

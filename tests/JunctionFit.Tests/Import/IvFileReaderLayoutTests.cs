@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using System.Text;
+using JunctionFit.Common;
 using JunctionFit.Import;
 using Xunit;
 
@@ -491,7 +492,7 @@ public class IvFileReaderLayoutTests
             d.Columns.Select(c => c.Kind).ToArray());
         Assert.Equal(areaCm2 * 1e-4, d.Curve.AreaM2!.Value, areaCm2 * 1e-4 * 1e-12);
         Assert.Contains(d.Curve.Warnings, w => w.StartsWith("columns by name: voltage 'voltage_1_1' (1), current 'current_1_1' (4); ignored: absJ_1_1 (|J|, A/cm²), J_1_1 (J, A/cm²), time_1_1 (time, s)", StringComparison.Ordinal));
-        Assert.Contains(d.Curve.Warnings, w => w.StartsWith("area ", StringComparison.Ordinal) && w.Contains("--area-from-file", StringComparison.Ordinal));
+        Assert.Contains(d.Curve.Warnings, w => w.StartsWith("area ", StringComparison.Ordinal) && Remedy.Find(w).Contains(Remedy.AreaFromFile));
         // A column's reason is shown by inspect.
         Assert.Contains(d.ToTextLines(), l => l.StartsWith("  2: 'absJ_1_1' -> ignored [A/cm²] — |J| by its name", StringComparison.Ordinal));
     }
@@ -564,18 +565,19 @@ public class IvFileReaderLayoutTests
     {
         var e = Assert.Throws<IvFormatException>(() => IvFileReader.Parse(Rows("Vg (V),C (pF)", k => $"{R(V[k])},{k + 1}"), "cv.csv"));
         Assert.Contains("capacitance–voltage", e.Reason, StringComparison.Ordinal);
-        Assert.Contains("--cv", e.Reason, StringComparison.Ordinal);
+        Assert.Equal([RemedyKind.ReadAsCv, RemedyKind.CurrentColumn], Remedy.Find(e.Reason).Select(r => r.Kind));
     }
 
     [Fact]
-    public void Parse_MissingColumns_MessagesNameTheCliOptions()
+    public void Parse_MissingColumns_MessagesCarryTheRemedy()
     {
+        // The library writes remedies, not option names (the CLI words them: OptionWords).
         var e = Assert.Throws<IvFormatException>(() => IvFileReader.Parse("a,b,c\n0.1,1e-9,5\n0.2,2e-9,6\n", "o.csv"));
-        Assert.Contains("--voltage-column", e.Reason, StringComparison.Ordinal);
+        Assert.Equal([Remedy.VoltageColumn], Remedy.Find(e.Reason));
         e = Assert.Throws<IvFormatException>(() => IvFileReader.Parse("V,Current (A),Current (A)\n0.1,1e-9,5\n0.2,2e-9,6\n", "o.csv"));
-        Assert.Contains("--current-column", e.Reason, StringComparison.Ordinal);
+        Assert.Equal([Remedy.CurrentColumn], Remedy.Find(e.Reason));
         e = Assert.Throws<IvFormatException>(() => IvFileReader.Parse("V (V),I (Zz)\n0.1,1e-9\n0.2,2e-9\n", "o.csv"));
-        Assert.Contains("--current-unit", e.Reason, StringComparison.Ordinal);
+        Assert.Equal([new Remedy(RemedyKind.CurrentUnit)], Remedy.Find(e.Reason));
     }
 
     [Fact]

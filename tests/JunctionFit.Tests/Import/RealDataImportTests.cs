@@ -1,4 +1,5 @@
 using System.Text.Json;
+using JunctionFit.Common;
 using JunctionFit.Import;
 using JunctionFit.Tests.Cli;
 using Xunit;
@@ -162,7 +163,7 @@ public class RealDataImportTests
         Assert.Equal(5, e.Line);
         Assert.Contains("no current column", e.Reason, StringComparison.Ordinal);
         Assert.Contains("capacitance–voltage file (cox in F)", e.Reason, StringComparison.Ordinal);
-        Assert.Contains("--cv", e.Reason, StringComparison.Ordinal);
+        Assert.Contains(Remedy.ReadAsCv, Remedy.Find(e.Reason));
     }
 
     [Fact]
