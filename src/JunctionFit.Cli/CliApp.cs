@@ -1,19 +1,12 @@
 using System.CommandLine;
 using JunctionFit.Cli.Commands;
+using JunctionFit.Cli.Support;
 
 namespace JunctionFit.Cli;
 
 /// <summary>Builds the command tree and runs it with one top-level error handler.</summary>
 public static class CliApp
 {
-    /// <summary>An exception message without .NET's " (Parameter 'x')" suffix.</summary>
-    public static string WithoutParameterName(string message)
-    {
-        ArgumentNullException.ThrowIfNull(message);
-        int at = message.LastIndexOf(" (Parameter '", StringComparison.Ordinal);
-        return at > 0 ? message[..at] : message;
-    }
-
     /// <summary>The command tree: every command with its options.</summary>
     /// <param name="context">Where the commands write.</param>
     internal static RootCommand BuildRoot(CliContext context)

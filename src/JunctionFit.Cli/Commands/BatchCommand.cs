@@ -1,6 +1,7 @@
 using System.CommandLine;
 using System.Globalization;
 using JunctionFit.Batch;
+using JunctionFit.Cli.Support;
 using JunctionFit.Common;
 using JunctionFit.Fitting;
 using JunctionFit.Import;

@@ -1,3 +1,4 @@
+using JunctionFit.Cli.Support;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
 using JunctionFit.Results;

@@ -1,5 +1,6 @@
 using System.CommandLine;
 using JunctionFit.Batch;
+using JunctionFit.Cli.Support;
 using JunctionFit.Import;
 using JunctionFit.Lots;
 using JunctionFit.Reporting;

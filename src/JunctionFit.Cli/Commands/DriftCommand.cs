@@ -2,6 +2,7 @@ using System.Collections.Immutable;
 using System.CommandLine;
 using System.Globalization;
 using JunctionFit.Batch;
+using JunctionFit.Cli.Support;
 using JunctionFit.Import;
 using JunctionFit.Results;
 using JunctionFit.Lots;

@@ -1,5 +1,6 @@
 using System.Collections.Immutable;
 using System.CommandLine;
+using JunctionFit.Cli.Support;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
 using JunctionFit.Physics;

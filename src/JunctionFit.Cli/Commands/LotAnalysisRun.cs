@@ -1,4 +1,5 @@
 using JunctionFit.Batch;
+using JunctionFit.Cli.Support;
 using JunctionFit.Import;
 using JunctionFit.Lots;
 using JunctionFit.Reporting;
@@ -22,7 +23,7 @@ internal static class LotAnalysisRun
         }
         catch (ArgumentException e)
         {
-            throw new UsageException($"--reference: {CliApp.WithoutParameterName(e.Message)}");
+            throw new UsageException($"--reference: {UsageException.WithoutParameterName(e.Message)}");
         }
     }
 
@@ -36,7 +37,7 @@ internal static class LotAnalysisRun
         }
         catch (ArgumentOutOfRangeException e)
         {
-            throw new UsageException($"--cet-range: {CliApp.WithoutParameterName(e.Message)}");
+            throw new UsageException($"--cet-range: {UsageException.WithoutParameterName(e.Message)}");
         }
     }
 
@@ -75,7 +76,7 @@ internal static class LotAnalysisRun
             }
             catch (ArgumentException e)
             {
-                context.Error.WriteLine($"{file}:0: {CliApp.WithoutParameterName(e.Message)}");
+                context.Error.WriteLine($"{file}:0: {UsageException.WithoutParameterName(e.Message)}");
                 ok = false;
             }
         }

@@ -1,4 +1,5 @@
 using System.CommandLine;
+using JunctionFit.Cli.Support;
 using JunctionFit.Results;
 using JunctionFit.Storage;
 

@@ -1,6 +1,7 @@
 using System.Collections.Immutable;
 using System.CommandLine;
 using System.Globalization;
+using JunctionFit.Cli.Support;
 using JunctionFit.Import;
 using JunctionFit.Physics;
 using JunctionFit.Planning;
@@ -204,7 +205,7 @@ internal static class PlanCommand
             }
             catch (ArgumentException ex)
             {
-                throw new UsageException($"plan: {CliApp.WithoutParameterName(ex.Message)}");
+                throw new UsageException($"plan: {UsageException.WithoutParameterName(ex.Message)}");
             }
 
             // The proposed sweep and the family of the recommended sweeps.
@@ -239,7 +240,7 @@ internal static class PlanCommand
                 }
                 catch (ArgumentException ex)
                 {
-                    throw new UsageException($"--sweep: {CliApp.WithoutParameterName(ex.Message)}");
+                    throw new UsageException($"--sweep: {UsageException.WithoutParameterName(ex.Message)}");
                 }
                 proposedInfo = new ProposedSweepInfo(fv, tv, nv, shapeText);
             }
@@ -297,7 +298,7 @@ internal static class PlanCommand
             }
             catch (ArgumentException ex)
             {
-                throw new UsageException($"plan: {CliApp.WithoutParameterName(ex.Message)}");
+                throw new UsageException($"plan: {UsageException.WithoutParameterName(ex.Message)}");
             }
             if (plotPath is not null && !plan.Scan.IsDefaultOrEmpty) PlanPlotRenderer.WritePng(plan, request, plotPath);
             context.Out.Write(parse.GetValue(json) ? PlanFormatter.Json(plan, request, proposedInfo) + "\n" : PlanFormatter.Text(plan, request, proposedInfo));

@@ -1,6 +1,7 @@
 using System.Collections.Immutable;
 using System.CommandLine;
 using System.Globalization;
+using JunctionFit.Cli.Support;
 using JunctionFit.Import;
 
 namespace JunctionFit.Cli.Commands;

@@ -1,4 +1,5 @@
 using System.CommandLine;
+using JunctionFit.Cli.Support;
 using JunctionFit.Storage;
 
 namespace JunctionFit.Cli.Commands;

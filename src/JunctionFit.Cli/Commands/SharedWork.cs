@@ -1,4 +1,5 @@
 using System.Globalization;
+using JunctionFit.Cli.Support;
 using JunctionFit.Storage;
 
 namespace JunctionFit.Cli.Commands;

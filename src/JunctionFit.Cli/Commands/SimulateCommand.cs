@@ -1,6 +1,7 @@
 using System.CommandLine;
 using System.Globalization;
 using System.Text;
+using JunctionFit.Cli.Support;
 using JunctionFit.Physics;
 
 namespace JunctionFit.Cli.Commands;
@@ -108,7 +109,7 @@ internal static class SimulateCommand
             }
             catch (ArgumentException ex)
             {
-                throw new UsageException($"simulate: {CliApp.WithoutParameterName(ex.Message)}");
+                throw new UsageException($"simulate: {UsageException.WithoutParameterName(ex.Message)}");
             }
             var (v, i) = sweep;
             for (int k = 0; k < junction.Parameters.Count; k++)

@@ -1,5 +1,6 @@
 using System.CommandLine;
 using System.Text.Json.Nodes;
+using JunctionFit.Cli.Support;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
 using JunctionFit.Reporting;

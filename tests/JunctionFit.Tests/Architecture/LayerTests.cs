@@ -121,6 +121,8 @@ public class LayerTests
             Assert.True(Types.InAssembly(Core).That().ResideInNamespace(layer).GetTypes().Any(), $"no types in {layer}");
         }
         Assert.True(Types.InAssembly(Cli).That().ResideInNamespace("JunctionFit.Cli").GetTypes().Any());
+        Assert.True(Types.InAssembly(Cli).That().ResideInNamespace(CliSupport).GetTypes().Any(), $"no types in {CliSupport}");
+        Assert.True(Types.InAssembly(Cli).That().ResideInNamespace(CliCommands).GetTypes().Any(), $"no types in {CliCommands}");
         Assert.Equal(Layers.Order(StringComparer.Ordinal), MayUse.Keys.Order(StringComparer.Ordinal));
     }
 
@@ -172,6 +174,42 @@ public class LayerTests
         Assert.False(result.IsSuccessful);
         Assert.Contains("JunctionFit.Storage.ResultIdentity", result.FailingTypeNames); // hashes a file through a FileStream
         Assert.Contains("JunctionFit.Storage.EllipsometryCsv", result.FailingTypeNames); // opens a StreamReader
+    }
+
+    private const string CliSupport = "JunctionFit.Cli.Support";
+    private const string CliCommands = "JunctionFit.Cli.Commands";
+
+    /// <summary>The types of the CLI's root namespace (the command tree), which only the entry point may use.</summary>
+    private static string[] CliRoot() =>
+        [.. Types.InAssembly(Cli).That().ResideInNamespaceMatching(@"^JunctionFit\.Cli$").GetTypes().Select(t => t.FullName!)];
+
+    [Fact]
+    public void CliSupport_UsesNeitherTheCommandsNorTheCommandTree()
+    {
+        // Within the CLI the flow is one way too: the command tree (CliApp) → the commands → the support types (context,
+        // exit codes, option words, quantity parsing), never back.
+        var result = Forbid(Types.InAssembly(Cli).That().ResideInNamespace(CliSupport), [CliCommands, .. CliRoot()]);
+        Assert.True(result.IsSuccessful, $"{CliSupport} may use only the library; backward edges in: {Names(result)}");
+    }
+
+    [Fact]
+    public void CliCommands_NeverUseTheCommandTree()
+    {
+        var result = Forbid(Types.InAssembly(Cli).That().ResideInNamespace(CliCommands), CliRoot());
+        Assert.True(result.IsSuccessful, $"{CliCommands} may not use the command tree; backward edges in: {Names(result)}");
+    }
+
+    [Fact]
+    public void CliRules_WidenedToTheWholeCli_ReportTheCommandTree()
+    {
+        // The support rule applied to the whole CLI must name the command tree, which does use the commands, and the root
+        // namespace must hold the command tree (or the rule against using it would forbid nothing).
+        Assert.Contains("JunctionFit.Cli.CliApp", CliRoot());
+        var result = Forbid(Types.InAssembly(Cli).That().ResideInNamespace("JunctionFit.Cli"), [CliCommands]);
+        Assert.False(result.IsSuccessful);
+        Assert.Contains(result.FailingTypeNames, n => n.StartsWith("JunctionFit.Cli.CliApp", StringComparison.Ordinal));
+        var support = Types.InAssemblies([Cli]).That().DoNotResideInNamespace(CliSupport).ShouldNot().HaveDependencyOn(CliSupport).GetResult();
+        Assert.False(support.IsSuccessful, $"nothing outside {CliSupport} is seen to use it");
     }
 
     [Fact]

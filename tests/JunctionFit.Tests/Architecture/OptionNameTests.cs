@@ -1,5 +1,6 @@
 using System.CommandLine;
 using JunctionFit.Cli;
+using JunctionFit.Cli.Support;
 using JunctionFit.Common;
 using JunctionFit.Fitting;
 using JunctionFit.Tests.Fitting;
@@ -81,7 +82,7 @@ public class OptionNameTests
     {
         // The scanner can fail: the CLI's own strings name options (its messages and the words of the remedies).
         var offences = Offences(typeof(CliApp).Assembly.Location);
-        Assert.Contains(offences, o => o.StartsWith("JunctionFit.Cli.OptionWords", StringComparison.Ordinal) && o.Contains("--area-from-file", StringComparison.Ordinal));
+        Assert.Contains(offences, o => o.StartsWith("JunctionFit.Cli.Support.OptionWords", StringComparison.Ordinal) && o.Contains("--area-from-file", StringComparison.Ordinal));
         Assert.True(OptionNames().Count > 40, "the command tree lists its options");
     }
 

@@ -1,4 +1,4 @@
-namespace JunctionFit.Cli;
+namespace JunctionFit.Cli.Support;
 
 /// <summary>Where a command writes: standard output for results, standard error for messages and progress.</summary>
 /// <param name="Out">Results (tables, JSON lines, CSV).</param>

@@ -3,7 +3,7 @@ using JunctionFit.Common;
 using JunctionFit.Reporting;
 using JunctionFit.Results;
 
-namespace JunctionFit.Cli;
+namespace JunctionFit.Cli.Support;
 
 /// <summary>
 /// The command-line words of the library's structured remedies (<see cref="Remedy"/>): each kind is the option that does it.

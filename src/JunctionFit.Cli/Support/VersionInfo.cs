@@ -1,6 +1,6 @@
 using System.Reflection;
 
-namespace JunctionFit.Cli;
+namespace JunctionFit.Cli.Support;
 
 /// <summary>The tool's version text for reports.</summary>
 public static class VersionInfo

@@ -1,6 +1,6 @@
 using JunctionFit.Physics;
 
-namespace JunctionFit.Cli;
+namespace JunctionFit.Cli.Support;
 
 /// <summary>
 /// Command-line names of model parameters: the JSON key without its unit, with hyphens

@@ -1,4 +1,4 @@
-namespace JunctionFit.Cli;
+namespace JunctionFit.Cli.Support;
 
 /// <summary>A command-line value that cannot be used; printed as one line, exit code 2.</summary>
 public sealed class UsageException(string message) : Exception(message)
@@ -10,9 +10,17 @@ public sealed class UsageException(string message) : Exception(message)
     public static UsageException ForOption(string option, ArgumentException refusal)
     {
         ArgumentNullException.ThrowIfNull(refusal);
-        string reason = CliApp.WithoutParameterName(refusal.Message);
+        string reason = WithoutParameterName(refusal.Message);
         return new UsageException(refusal is ArgumentOutOfRangeException { ActualValue: { } value }
             ? string.Create(System.Globalization.CultureInfo.InvariantCulture, $"{option}: {value} {reason}")
             : $"{option}: {reason}");
+    }
+
+    /// <summary>An exception message without .NET's " (Parameter 'x')" suffix.</summary>
+    public static string WithoutParameterName(string message)
+    {
+        ArgumentNullException.ThrowIfNull(message);
+        int at = message.LastIndexOf(" (Parameter '", StringComparison.Ordinal);
+        return at > 0 ? message[..at] : message;
     }
 }

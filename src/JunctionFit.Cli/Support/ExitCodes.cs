@@ -1,4 +1,4 @@
-namespace JunctionFit.Cli;
+namespace JunctionFit.Cli.Support;
 
 /// <summary>Process exit codes (documented in docs/cli.md; scripts rely on them).</summary>
 public static class ExitCodes

@@ -1,6 +1,6 @@
 using System.Globalization;
 
-namespace JunctionFit.Cli;
+namespace JunctionFit.Cli.Support;
 
 /// <summary>Parses quantities given on the command line into SI values.</summary>
 public static class QuantityParser

@@ -1,6 +1,6 @@
 using JunctionFit.Physics;
 
-namespace JunctionFit.Cli;
+namespace JunctionFit.Cli.Support;
 
 /// <summary>Maps <c>--model</c> names to barrier models (the catalogue in Physics).</summary>
 public static class ModelResolver

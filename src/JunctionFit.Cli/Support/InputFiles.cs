@@ -1,4 +1,4 @@
-namespace JunctionFit.Cli;
+namespace JunctionFit.Cli.Support;
 
 /// <summary>Expands the PATH arguments of a command into the list of files to process.</summary>
 public static class InputFiles
