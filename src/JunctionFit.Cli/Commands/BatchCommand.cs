@@ -2,7 +2,6 @@ using System.CommandLine;
 using System.Globalization;
 using JunctionFit.Batch;
 using JunctionFit.Cli.Support;
-using JunctionFit.Common;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
 using JunctionFit.Reporting;
@@ -17,9 +16,6 @@ namespace JunctionFit.Cli.Commands;
 /// </summary>
 internal static class BatchCommand
 {
-    /// <summary>Folder of the fit plots inside the output folder (results.csv names plots relative to the output folder).</summary>
-    public const string PlotDirName = "plots";
-
     public static Command Create(CliContext context)
     {
         var dir = new Argument<string>("DIR") { Description = "folder with the I–V files of a lot (searched recursively)" };
@@ -100,141 +96,29 @@ internal static class BatchCommand
             return new BatchOutcome(ExitCodes.UsageOrInput, [], "", "");
         }
         Directory.CreateDirectory(s.OutDir);
-        string plotDir = Path.Combine(s.OutDir, PlotDirName);
-        string mapDir = Path.Combine(s.OutDir, LotReport.MapDirName);
-        if (s.Plots) Directory.CreateDirectory(plotDir);
-        Directory.CreateDirectory(mapDir);
-
-        var keys = ParameterKeys(s.Plan);
-        string resultsPath = Path.Combine(s.OutDir, ResultsCsv.FileName);
-        string partial = resultsPath + ".partial";
-        var rows = new List<ResultRow>(files.Count);
-        var results = new List<FitResult>(files.Count);
-        var plotByIndex = new string?[files.Count];
-        var reportCandidates = new ReportCandidates();
-        var plotNames = new HashSet<string>(StringComparer.Ordinal);
-        int unreadable = 0, notOk = 0, done = 0;
+        Directory.CreateDirectory(Path.Combine(s.OutDir, LotReport.MapDirName));
         var progress = new Progress(context.Error, files.Count);
-        using var store = s.Database is null ? null : OpenStore(s.Database);
-        string optionsText = FitOptionsText.Canonical(s.Plan.Options, s.IdentityExtras);
-        string optionsHash = ResultIdentity.OptionsHash(optionsText);
-        var fileKeys = new ResultKey?[files.Count];
-        var stored = new Dictionary<ResultKey, StoredResult>();
-        if (store is not null)
+        LotFitOutcome fit;
+        using (var store = s.Database is null ? null : ResultDatabases.Open(s.Database))
         {
-            Parallel.For(0, files.Count, new ParallelOptions { MaxDegreeOfParallelism = s.Jobs }, k =>
+            var request = new LotFitRequest(files, s.OutDir, s.ReadOptions, s.Plan, s.Jobs)
             {
-                try { fileKeys[k] = new ResultKey(ResultIdentity.FileSha256(files[k]), s.Plan.DisplayName, optionsHash); }
-                catch (Exception e) when (e is IOException or UnauthorizedAccessException) { fileKeys[k] = null; }
-            });
-            if (!s.Force)
-            {
-                var existing = store.ExistingKeys(fileKeys.OfType<ResultKey>());
-                if (existing.Count > 0)
-                {
-                    foreach (var r in store.QueryKeys(existing)) stored[r.Key] = r;
-                    context.Error.WriteLine($"junctionfit batch: {stored.Count} of {files.Count} files are already stored with the same content, model and options; " +
-                                            "they are not refitted (--force refits them)");
-                }
-            }
+                Plots = s.Plots,
+                Force = s.Force,
+                Lease = s.Lease,
+                WorkerName = s.WorkerName,
+                IdentityExtras = s.IdentityExtras,
+                ToolVersion = VersionInfo.Text,
+                Words = OptionWords.Flag,
+            };
+            fit = LotFitRun.Run(request, store, s.Database is null ? null : () => ResultStore.Open(s.Database), context.Error, (done, _) => progress.Report(done));
         }
-        var storeRun = RunInfo.StartNew(VersionInfo.Text);
-        var worker = WorkerIdentity.Current(s.WorkerName);
-        var work = store is null ? null : new SharedWork(store, worker, s.Lease, s.Force, files, fileKeys, context.Error);
-        var dbWriter = store is null ? null : new ChunkedResultWriter(store, chunkSize: SharedWork.MaxBlock, claimsOf: worker);
-        using (var file = new FileStream(partial, FileMode.Create, FileAccess.Write, FileShare.Read))
-        using (var table = ResultsCsv.Open(file, keys))
-        {
-            // Rows go out in input order: one that arrives early (another worker's file came later) waits for its predecessors.
-            var waiting = new (ResultRow Row, FitResult Result)?[files.Count];
-            int nextRow = 0;
-            void Emit(int index, ResultRow row, FitResult result)
-            {
-                waiting[index] = (row, result);
-                while (nextRow < files.Count && waiting[nextRow] is { } ready)
-                {
-                    table.Write(ready.Row);
-                    rows.Add(ready.Row);
-                    results.Add(ready.Result);
-                    waiting[nextRow++] = null;
-                }
-            }
-            CurveOutcome Process(int k)
-            {
-                if (fileKeys[k] is ResultKey key && stored.TryGetValue(key, out var previous))
-                {
-                    return new CurveOutcome(files[k], previous.Result with { SourcePath = files[k] }, null) { FromStore = true };
-                }
-                var fitted = CurvePipeline.Process(files[k], s.ReadOptions, s.Plan, context.Error);
-                // Render on the worker thread; the ordered consumer only writes the bytes.
-                return s.Plots && fitted.Result.Curve is not null ? fitted with { PlotPng = FitPlotRenderer.RenderPng(fitted.Result) } : fitted;
-            }
-            void Consume(int index, CurveOutcome outcome)
-            {
-                if (dbWriter is not null && work!.Claimed[index] && !outcome.FromStore && fileKeys[index] is ResultKey newKey)
-                {
-                    dbWriter.Add(new StoredResult(newKey, optionsText, storeRun, outcome.Result with { Curve = null })
-                    {
-                        FittedBy = worker.FittedBy,
-                        FittedAt = DateTimeOffset.UtcNow,
-                    });
-                }
-                if (outcome.ReadError is not null)
-                {
-                    context.Error.WriteLine(outcome.ReadError);
-                    unreadable++;
-                }
-                var result = outcome.Result;
-                if (result.Status != FitStatus.Ok) notOk++;
-                if (result.Status != FitStatus.Ok && outcome.ReadError is null)
-                {
-                    context.Error.WriteLine($"{result.SourcePath}:0: {ResultSchema.StatusText(result.Status)}: {result.StatusReason ?? result.Error}");
-                }
-                string? plot = null;
-                if (outcome.PlotPng is { } png)
-                {
-                    plot = Path.Combine(plotDir, FitRun.UniquePlotName(result, plotNames));
-                    AtomicFile.WriteAllBytes(plot, png);
-                }
-                plotByIndex[index] = plot;
-                var row = ResultRow.FromFitResult(result) with
-                {
-                    OptionSet = optionsText,
-                    Plot = plot is null ? null : PlotDirName + "/" + Path.GetFileName(plot),
-                };
-                Emit(index, row, result with { Curve = null });
-                reportCandidates.Offer(index, result with { Curve = null }, plot);
-                progress.Report(++done);
-            }
-            if (work is null)
-            {
-                CurvePipeline.Run(files.Count, Process, s.Jobs, Consume);
-            }
-            else
-            {
-                work.Run(k => fileKeys[k] is ResultKey key && stored.ContainsKey(key), Process, s.Jobs, Consume, dbWriter!.Flush,
-                    () => OpenStore(s.Database!));
-                if (work.FromOthers > 0 || work.TakenOver > 0)
-                {
-                    context.Error.WriteLine($"junctionfit batch: worker {worker.FittedBy}: {work.Claimed.Count(c => c)} files fitted here, " +
-                                            $"{work.FromOthers} taken from other workers' results, {work.TakenOver} taken over from workers whose lease lapsed");
-                }
-                if (dbWriter.Dropped > 0)
-                {
-                    context.Error.WriteLine($"junctionfit batch: warning: {dbWriter.Dropped} results not stored: their claim lapsed and another worker took the file over " +
-                                            "(a longer --lease avoids this)");
-                }
-            }
-            table.Flush();
-            file.Flush(flushToDisk: true);
-        }
-        dbWriter?.Flush();
-        File.Move(partial, resultsPath, overwrite: true);
-        if (store is not null) context.Error.WriteLine($"junctionfit batch: database {store.Description} holds {store.Count()} results");
         progress.Finish();
+        var rows = fit.Rows;
+        string resultsPath = fit.ResultsPath;
 
         // Lot summary, wafer maps and report (JunctionFit.Batch); the words that name options are given here.
-        var report = LotReport.Write(new LotReportRequest(s.OutDir, rows, results, plotByIndex, reportCandidates,
+        var report = LotReport.Write(new LotReportRequest(s.OutDir, rows, fit.Results, fit.PlotByIndex, fit.Candidates,
             new HtmlRunInfo(VersionInfo.Text, DateTimeOffset.Now, s.Plan.DisplayName, $"batch {s.InputDir}; {s.Summary}") { Title = "JunctionFit lot report" })
         {
             PlotsWritten = s.Plots,
@@ -253,7 +137,7 @@ internal static class BatchCommand
                                 $"{rows.Count(r => r.Status == FitStatus.PoorFit)} poor fits, {rows.Count(r => r.Status == FitStatus.Failed)} failed");
         context.Error.WriteLine($"junctionfit batch: results {resultsPath}");
         context.Error.WriteLine($"junctionfit batch: report  {reportPath}");
-        int code = unreadable == files.Count ? ExitCodes.UsageOrInput : notOk == 0 ? ExitCodes.Success : ExitCodes.SomeFailed;
+        int code = fit.Unreadable == files.Count ? ExitCodes.UsageOrInput : fit.NotOk == 0 ? ExitCodes.Success : ExitCodes.SomeFailed;
         return new BatchOutcome(code, rows, resultsPath, reportPath);
     }
 
@@ -287,45 +171,6 @@ internal static class BatchCommand
         {
             throw new UsageException($"--worker-name: {e.Message.Split(" (Parameter", 2)[0]}");
         }
-    }
-
-    /// <summary>
-    /// Opens a database for a command that only reads it (results, drift, thickness): a SQLite file that does not exist is
-    /// a usage error naming the path, and nothing is created (a mistyped path must not leave an empty database behind).
-    /// </summary>
-    internal static IResultStore OpenExistingStore(string database)
-    {
-        if (!string.IsNullOrWhiteSpace(database) && ResultStore.KindOf(database) == ResultStoreKind.Sqlite && !File.Exists(database))
-        {
-            throw new UsageException(Directory.Exists(database)
-                ? $"--db: {database} is a folder, not a results database file"
-                : $"--db: no results database at {Path.GetFullPath(database)} (reading commands never create one; give the file that batch wrote)");
-        }
-        return OpenStore(database);
-    }
-
-    internal static IResultStore OpenStore(string database)
-    {
-        try
-        {
-            return ResultStore.Open(database);
-        }
-        catch (ResultStoreException e)
-        {
-            throw new UsageException($"--db: {e.Message}");
-        }
-        catch (ArgumentException e)
-        {
-            throw new UsageException($"--db: {ConnectionStrings.Redact(database)}: {e.Message}");
-        }
-    }
-
-    /// <summary>Keys of every parameter any model of the plan can report, in the standard order.</summary>
-    internal static List<string> ParameterKeys(FitPlan plan)
-    {
-        var perModel = plan.ModelNames.Select(name =>
-            new Physics.JunctionCurrentModel(Physics.BarrierModelCatalog.Create(name, plan.ModelOptions), plan.Parasitics).Parameters.Select(d => d.Key));
-        return [.. ResultSchema.ParameterKeys(perModel, withStandard: true)];
     }
 
     /// <summary>A progress bar on a terminal, plain lines every 10 % otherwise (standard error).</summary>

@@ -97,7 +97,7 @@ internal static class DriftCommand
     /// <summary>Rows stored in a results database (all lots, or the given ones).</summary>
     internal static IEnumerable<ResultRow> ReadDatabase(string database, IReadOnlyList<string> lots)
     {
-        using var store = BatchCommand.OpenExistingStore(database);
+        using var store = ResultDatabases.OpenExisting(database);
         var stored = lots.Count == 0 ? store.Query() : lots.SelectMany(l => store.Query(lot: l)).ToList();
         return stored.Select(r => r.ToRow()).ToList();
     }

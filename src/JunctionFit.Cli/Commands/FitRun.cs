@@ -1,3 +1,4 @@
+using JunctionFit.Batch;
 using JunctionFit.Cli.Support;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
@@ -51,7 +52,7 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
         // Read, fit and (with --json) format on the workers; write in input order on this thread.
         CurvePipeline.Run(files.Count, k =>
         {
-            var outcome = CurvePipeline.Process(files[k], readOptions, plan, context.Error);
+            var outcome = CurvePipeline.Process(files[k], readOptions, plan, context.Error, OptionWords.Flag);
             return json ? outcome with { JsonLine = FitJsonFormatter.Format(WithCv(outcome.Result)) } : outcome;
         }, jobs, (_, outcome) =>
         {
@@ -75,7 +76,7 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
             string? plot = null;
             if (plotDir is not null && result.Curve is not null)
             {
-                plot = Path.Combine(plotDir, UniquePlotName(result, usedPlotNames));
+                plot = Path.Combine(plotDir, PlotFileNames.Unique(result, usedPlotNames));
                 FitPlotRenderer.WritePng(result, plot);
             }
             if (!json || outDir is not null)
@@ -126,33 +127,5 @@ internal sealed class FitRun(CliContext context, FitPlan plan, IvReadOptions rea
 
     /// <summary>Number of results with status failed in the last run.</summary>
     public int FailedCount { get; private set; }
-
-    /// <summary>
-    /// A plot file name made unique within the run. When the result knows its lot, wafer and die the name is built from
-    /// them (lot KM-A01, wafer W01, die (3, 4) → KM-A01_W01_die_3_4.png), wherever the file lies; otherwise from the input
-    /// path relative to the working directory, folders joined by '_' (lot/wafer/die_3_4.csv → lot_wafer_die_3_4.png),
-    /// or the file name alone for a file outside it.
-    /// </summary>
-    internal static string UniquePlotName(FitResult result, HashSet<string> used)
-    {
-        string stem;
-        if (result.Lot is not null && result.Wafer is not null && result.DieX is int x && result.DieY is int y)
-        {
-            stem = FormattableString.Invariant($"{result.Lot.Trim()}_{result.Wafer.Trim()}_die_{x}_{y}");
-        }
-        else
-        {
-            string sourcePath = result.SourcePath;
-            string relative = Path.GetRelativePath(Directory.GetCurrentDirectory(), sourcePath);
-            if (relative.StartsWith("..", StringComparison.Ordinal) || Path.IsPathRooted(relative)) relative = Path.GetFileName(sourcePath);
-            string withoutExt = Path.ChangeExtension(relative, null) ?? relative;
-            stem = withoutExt.Replace(Path.DirectorySeparatorChar, '_').Replace(Path.AltDirectorySeparatorChar, '_').TrimStart('.', '_');
-        }
-        if (stem.Length == 0) stem = "fit";
-        foreach (char c in Path.GetInvalidFileNameChars()) stem = stem.Replace(c, '_');
-        string name = stem + ".png";
-        for (int i = 2; !used.Add(name); i++) name = $"{stem}-{i}.png";
-        return name;
-    }
 
 }

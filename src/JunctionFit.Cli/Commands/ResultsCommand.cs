@@ -20,7 +20,7 @@ internal static class ResultsCommand
         command.SetAction(parse =>
         {
             if (parse.GetValue(csv) && parse.GetValue(json)) throw new UsageException("results: choose --csv or --json, not both");
-            using var store = BatchCommand.OpenExistingStore(parse.GetValue(db)!);
+            using var store = ResultDatabases.OpenExisting(parse.GetValue(db)!);
             var rows = store.Query(lot: parse.GetValue(lot), wafer: parse.GetValue(wafer), model: parse.GetValue(model));
             if (parse.GetValue(json)) StoredResultsWriter.WriteJsonLines(context.Out, rows);
             else StoredResultsWriter.WriteCsv(context.Out, rows);

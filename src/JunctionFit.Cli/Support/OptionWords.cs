@@ -39,6 +39,8 @@ internal static class OptionWords
             RemedyKind.MaxBias => "--max-bias",
             RemedyKind.MaxField => "--max-field",
             RemedyKind.FitJsonOutput => "fit --json",
+            RemedyKind.Refit => "--force",
+            RemedyKind.Lease => "--lease",
             _ => throw new ArgumentOutOfRangeException(nameof(remedy), remedy.Kind, "no option words this remedy"),
         };
         return remedy.Argument is null ? option : option + " " + remedy.Argument;
@@ -51,15 +53,7 @@ internal static class OptionWords
     public static FitResult Word(FitResult result)
     {
         ArgumentNullException.ThrowIfNull(result);
-        return result with
-        {
-            Error = Word(result.Error),
-            StatusReason = Word(result.StatusReason),
-            ModelValidity = Word(result.ModelValidity),
-            Warnings = [.. result.Warnings.Select(w => Word(w)!)],
-            Diagnoses = [.. result.Diagnoses.Select(d => Word(d)!)],
-            Quality = result.Quality is { NoiseFloorDescription: { } description } q ? q with { NoiseFloorDescription = Word(description) } : result.Quality,
-        };
+        return result.WithRemediesWorded(Flag);
     }
 
     /// <summary>Every text of a report section worded as options (a section the library built from messages, before it is written).</summary>

@@ -70,6 +70,12 @@ public enum RemedyKind
 
     /// <summary>The JSON lines written by a single-file fit (a file to read, not an option to change).</summary>
     FitJsonOutput,
+
+    /// <summary>Refit files whose result is already stored for the same content, model and options.</summary>
+    Refit,
+
+    /// <summary>Hold a worker's claims on files longer without renewal (several workers on one database).</summary>
+    Lease,
 }
 
 /// <summary>

@@ -1,4 +1,5 @@
 using System.Collections.Immutable;
+using JunctionFit.Common;
 
 namespace JunctionFit.Results;
 
@@ -206,6 +207,28 @@ public sealed record FitResult
         Error = error,
         StatusReason = error,
     };
+
+    /// <summary>
+    /// This result with every remedy placeholder in its texts (error, status reason, validity, warnings, diagnoses, the
+    /// noise-floor description) worded by <paramref name="words"/> — done once, before the result is printed, written or
+    /// stored, by whoever knows how remedies are said (the command line: as its options).
+    /// </summary>
+    /// <param name="words">How to word a remedy.</param>
+    /// <returns>The worded result.</returns>
+    /// <exception cref="ArgumentNullException"><paramref name="words"/> is null.</exception>
+    public FitResult WithRemediesWorded(Func<Remedy, string> words)
+    {
+        ArgumentNullException.ThrowIfNull(words);
+        return this with
+        {
+            Error = Remedy.Word(Error, words),
+            StatusReason = Remedy.Word(StatusReason, words),
+            ModelValidity = Remedy.Word(ModelValidity, words),
+            Warnings = [.. Warnings.Select(w => Remedy.Word(w, words)!)],
+            Diagnoses = [.. Diagnoses.Select(d => Remedy.Word(d, words)!)],
+            Quality = Quality is { NoiseFloorDescription: { } description } q ? q with { NoiseFloorDescription = Remedy.Word(description, words) } : Quality,
+        };
+    }
 }
 
 /// <summary>One candidate of a model comparison.</summary>

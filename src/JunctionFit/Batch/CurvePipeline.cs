@@ -1,15 +1,15 @@
-using JunctionFit.Cli.Support;
+using JunctionFit.Common;
 using JunctionFit.Fitting;
 using JunctionFit.Import;
 using JunctionFit.Results;
 
-namespace JunctionFit.Cli.Commands;
+namespace JunctionFit.Batch;
 
 /// <summary>What became of one input file.</summary>
 /// <param name="Path">The file as given.</param>
 /// <param name="Result">The fit (status failed when the file could not be read).</param>
 /// <param name="ReadError">The importer's <c>path:line: reason</c>, or null when the file was read.</param>
-internal readonly record struct CurveOutcome(string Path, FitResult Result, string? ReadError)
+public readonly record struct CurveOutcome(string Path, FitResult Result, string? ReadError)
 {
     /// <summary>True when the result was taken from the results database instead of being fitted now.</summary>
     public bool FromStore { get; init; }
@@ -24,16 +24,19 @@ internal readonly record struct CurveOutcome(string Path, FitResult Result, stri
 /// <summary>
 /// Read → fit for many files: files are processed in parallel in ordered chunks, and each outcome is handed to the
 /// caller in input order on the calling thread, then dropped — results appear deterministically and memory stays flat.
+/// Whoever shows the results words their remedies (<see cref="Remedy"/>); given the words, every text of a result and the
+/// importer's messages are worded here, on the worker thread, before anything is stored or written.
 /// </summary>
-internal static class CurvePipeline
+public static class CurvePipeline
 {
     private const int ChunkSize = 64;
 
-    public static void Run(IReadOnlyList<string> files, IvReadOptions readOptions, FitPlan plan, int jobs, Action<int, CurveOutcome> consume,
-        TextWriter? progress = null, CancellationToken cancel = default)
-        => Run(files.Count, k => Process(files[k], readOptions, plan, progress), jobs, consume, cancel);
-
     /// <summary>Runs <paramref name="process"/> for indices 0 … count − 1 in parallel chunks, consuming in order.</summary>
+    /// <param name="fileCount">Number of inputs.</param>
+    /// <param name="process">Produces the outcome of input k (called in parallel).</param>
+    /// <param name="jobs">Parallel calls of <paramref name="process"/> at most.</param>
+    /// <param name="consume">Takes input k's outcome, in input order, on the calling thread.</param>
+    /// <param name="cancel">Stops before the next chunk's outcomes are made.</param>
     public static void Run(int fileCount, Func<int, CurveOutcome> process, int jobs, Action<int, CurveOutcome> consume, CancellationToken cancel = default)
     {
         var outcomes = new CurveOutcome[Math.Min(ChunkSize, Math.Max(fileCount, 1))];
@@ -51,8 +54,15 @@ internal static class CurvePipeline
     }
 
     /// <summary>Reads and fits one file; with <paramref name="progress"/>, a large file that takes over a second says so there.</summary>
-    public static CurveOutcome Process(string path, IvReadOptions readOptions, FitPlan plan, TextWriter? progress = null)
+    /// <param name="path">The I–V file.</param>
+    /// <param name="readOptions">How to read it.</param>
+    /// <param name="plan">How to fit it.</param>
+    /// <param name="progress">Where a slow large file says how far it got; null for nowhere.</param>
+    /// <param name="words">Words of the remedies in the result and the read error; null leaves them as placeholders.</param>
+    /// <returns>The fit, or a failed result with the importer's <c>path:line: reason</c>.</returns>
+    public static CurveOutcome Process(string path, IvReadOptions readOptions, FitPlan plan, TextWriter? progress = null, Func<Remedy, string>? words = null)
     {
+        ArgumentNullException.ThrowIfNull(plan);
         using var watch = FileProgress.Start(progress, path, "reading");
         IvCurve curve;
         try
@@ -61,13 +71,16 @@ internal static class CurvePipeline
         }
         catch (IvFormatException e)
         {
-            return new CurveOutcome(path, FitResult.Failed(path, plan.DisplayName, OptionWords.Word(e.Reason)!), OptionWords.Word(e.Message));
+            return new CurveOutcome(path, FitResult.Failed(path, plan.DisplayName, Word(e.Reason, words)), Word(e.Message, words));
         }
         catch (Exception e) when (e is IOException or UnauthorizedAccessException)
         {
             return new CurveOutcome(path, FitResult.Failed(path, plan.DisplayName, e.Message), $"{path}:0: cannot read: {e.Message}");
         }
         watch?.Stage($"fitting {curve.Count} points ({plan.DisplayName})");
-        return new CurveOutcome(path, OptionWords.Word(plan.Fit(curve)), null);
+        var fitted = plan.Fit(curve);
+        return new CurveOutcome(path, words is null ? fitted : fitted.WithRemediesWorded(words), null);
     }
+
+    private static string Word(string text, Func<Remedy, string>? words) => words is null ? text : Remedy.Word(text, words)!;
 }

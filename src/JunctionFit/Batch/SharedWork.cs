@@ -1,8 +1,7 @@
 using System.Globalization;
-using JunctionFit.Cli.Support;
 using JunctionFit.Storage;
 
-namespace JunctionFit.Cli.Commands;
+namespace JunctionFit.Batch;
 
 /// <summary>
 /// How a batch with a database shares a lot with other batch processes on the same database (docs/database.md, "Several
@@ -14,7 +13,7 @@ namespace JunctionFit.Cli.Commands;
 /// lease expired (a worker that died). A heartbeat thread renews this worker's leases. With one worker every file is
 /// granted, so the order of work and the output are those of a batch without claims.
 /// </summary>
-internal sealed class SharedWork
+public sealed class SharedWork
 {
     /// <summary>The most files claimed and stored per transaction.</summary>
     public const int MaxBlock = 256;
@@ -242,7 +241,7 @@ internal sealed class SharedWork
                             store.RenewClaims(worker, lease);
                             warned = false;
                         }
-                        catch (Exception e) when (e is ResultStoreException or UsageException)
+                        catch (Exception e) when (e is ResultStoreException or ArgumentException)
                         {
                             if (!warned) error.WriteLine($"junctionfit batch: warning: could not renew this worker's claims: {e.Message}");
                             warned = true;

@@ -1,7 +1,7 @@
-using JunctionFit.Cli.Commands;
+using JunctionFit.Batch;
 using Xunit;
 
-namespace JunctionFit.Tests.Cli;
+namespace JunctionFit.Tests.Batch;
 
 public class FileProgressTests
 {

@@ -1,7 +1,7 @@
 using System.Diagnostics;
 using System.Globalization;
 
-namespace JunctionFit.Cli.Commands;
+namespace JunctionFit.Batch;
 
 /// <summary>
 /// Progress on standard error for one large input file that takes longer than <see cref="DelaySeconds"/>: a line
@@ -9,7 +9,7 @@ namespace JunctionFit.Cli.Commands;
 /// <c>junctionfit: PATH: done in N s</c> at the end when anything was shown. Files below <see cref="MinimumBytes"/>
 /// (about 7000 rows) never show progress, so that a slow machine does not add lines to small runs.
 /// </summary>
-internal sealed class FileProgress : IDisposable
+public sealed class FileProgress : IDisposable
 {
     /// <summary>Seconds before the first progress line.</summary>
     public const double DelaySeconds = 1.0;
