@@ -182,6 +182,14 @@ internal static class Migrations
         new Migration(3, "index on the options hash: rows are told apart and grouped by the option set that made them",
             Sqlite: ["CREATE INDEX fit_result_options ON fit_result (options_hash, model)"],
             PostgreSql: ["CREATE INDEX fit_result_options ON fit_result (options_hash, model)"]),
+        new Migration(4, "status reason, model validity and diagnoses per result, so a result taken from the database says what the fit said",
+            Sqlite:
+            [
+                "ALTER TABLE fit_result ADD COLUMN status_reason TEXT",
+                "ALTER TABLE fit_result ADD COLUMN model_validity TEXT",
+                "ALTER TABLE fit_result ADD COLUMN diagnoses_json TEXT",
+            ],
+            PostgreSql: ["ALTER TABLE fit_result ADD COLUMN status_reason TEXT, ADD COLUMN model_validity TEXT, ADD COLUMN diagnoses_json TEXT"]),
     ];
 
     /// <summary>The newest version.</summary>

@@ -1,8 +1,8 @@
+using System.Collections.Immutable;
 using System.Data;
 using System.Data.Common;
 using System.Globalization;
 using System.Text;
-using JunctionFit.Results;
 using JunctionFit.Common;
 
 namespace JunctionFit.Storage;
@@ -43,27 +43,7 @@ internal abstract class SqlResultStore : IResultStore
 
     private static readonly CultureInfo Inv = CultureInfo.InvariantCulture;
 
-    /// <summary>The columns of <c>fit_result</c> written per result, in parameter order (the key's three come first).</summary>
-    private static readonly (string Name, ColumnKind Kind)[] ResultColumns =
-    [
-        ("file_sha256", ColumnKind.Text), ("model", ColumnKind.Text), ("options_hash", ColumnKind.Text),
-        ("options_text", ColumnKind.Text), ("file_path", ColumnKind.Text), ("lot", ColumnKind.Text), ("wafer", ColumnKind.Text),
-        ("die_x", ColumnKind.Int), ("die_y", ColumnKind.Int), ("status", ColumnKind.Text), ("error", ColumnKind.Text),
-        ("points_used", ColumnKind.Int), ("points_masked", ColumnKind.Int), ("iterations", ColumnKind.Int),
-        ("rss", ColumnKind.Real), ("reduced_chi2", ColumnKind.Real), ("converged", ColumnKind.Bool),
-        ("stop_reason", ColumnKind.Text), ("covariance_scaling", ColumnKind.Text), ("interval_method", ColumnKind.Text),
-        ("transition_voltage_v", ColumnKind.Real), ("warnings_json", ColumnKind.Text), ("correlation_json", ColumnKind.Text),
-        ("parameter_count", ColumnKind.Int), ("run_id", ColumnKind.Text), ("run_started_utc", ColumnKind.Time),
-        ("tool_version", ColumnKind.Text), ("host", ColumnKind.Text), ("stored_utc", ColumnKind.Time),
-        ("fitted_by", ColumnKind.Text), ("fitted_at", ColumnKind.Time),
-    ];
-
-    private static readonly (string Name, ColumnKind Kind)[] ParameterColumns =
-    [
-        ("ordinal", ColumnKind.Int), ("param_key", ColumnKind.Text), ("symbol", ColumnKind.Text), ("unit", ColumnKind.Text),
-        ("value", ColumnKind.Real), ("stderr", ColumnKind.Real), ("lower95", ColumnKind.Real), ("upper95", ColumnKind.Real),
-        ("is_fixed", ColumnKind.Bool),
-    ];
+    private static readonly ImmutableArray<StoredColumn> ResultColumns = StoredColumns.Result;
 
     private static readonly string InsertColumnList = string.Join(", ", ResultColumns.Select(c => c.Name));
     private static readonly string InsertValueList = string.Join(", ", ResultColumns.Select(c => "@" + c.Name));
@@ -78,12 +58,7 @@ internal abstract class SqlResultStore : IResultStore
         $"INSERT INTO fit_result ({InsertColumnList}) VALUES ({InsertValueList}) " +
         "ON CONFLICT (file_sha256, model, options_hash) DO NOTHING RETURNING id";
 
-    private const string SelectColumns =
-        "r.id, r.file_sha256, r.model, r.options_hash, r.options_text, r.file_path, r.lot, r.wafer, r.die_x, r.die_y, " +
-        "r.status, r.error, r.points_used, r.points_masked, r.iterations, r.rss, r.reduced_chi2, r.converged, r.stop_reason, " +
-        "r.covariance_scaling, r.interval_method, r.transition_voltage_v, r.warnings_json, r.correlation_json, r.parameter_count, " +
-        "r.run_id, r.run_started_utc, r.tool_version, r.host, r.stored_utc, r.fitted_by, r.fitted_at, " +
-        "p.ordinal, p.param_key, p.symbol, p.unit, p.value, p.stderr, p.lower95, p.upper95, p.is_fixed";
+    private static readonly string SelectColumns = StoredColumns.SelectList;
 
     private readonly TransientRetry _retry;
     private bool _disposed;
@@ -606,18 +581,11 @@ internal abstract class SqlResultStore : IResultStore
             foreach (var row in ordered)
             {
                 var r = row.Result;
-                var q = r.Quality;
-                object?[] v =
-                [
-                    row.Key.FileSha256, row.Key.Model, row.Key.OptionsHash, row.OptionsText, r.SourcePath, r.Lot, r.Wafer,
-                    r.DieX, r.DieY, ResultSchema.StatusText(r.Status), r.Error,
-                    q?.PointsUsed, q?.PointsMasked, q?.Iterations, StoredColumnCodecs.Finite(q?.ResidualSumOfSquares), StoredColumnCodecs.Finite(q?.ReducedChiSquare), q?.Converged,
-                    q?.StopReason, q?.CovarianceScaling, q?.IntervalMethod,
-                    StoredColumnCodecs.Finite(r.TransitionVoltageV), StoredColumnCodecs.WarningsJson(r.Warnings), StoredColumnCodecs.CorrelationJson(r), r.Parameters.Length,
-                    row.Run.RunId, TimeValue(row.Run.StartedUtc), row.Run.ToolVersion, row.Run.Host, TimeValue(storedUtc),
-                    row.FittedBy ?? row.Run.Host, TimeValue(row.FittedAt ?? storedUtc),
-                ];
-                for (int i = 0; i < v.Length; i++) p[i].Value = v[i] ?? DBNull.Value;
+                for (int i = 0; i < ResultColumns.Length; i++)
+                {
+                    object? value = ResultColumns[i].Value(row, storedUtc);
+                    p[i].Value = value is DateTimeOffset time ? TimeValue(time) : value ?? DBNull.Value;
+                }
                 object? id = upsert.ExecuteScalar();
                 if (id is null || id is DBNull) continue;
                 written++;
@@ -659,23 +627,23 @@ internal abstract class SqlResultStore : IResultStore
         if (count > 0)
         {
             sql.Append("; INSERT INTO fit_parameter (result_id, ")
-               .Append(string.Join(", ", ParameterColumns.Select(c => c.Name)))
+               .Append(string.Join(", ", StoredColumns.Parameter.Select(c => c.Name)))
                .Append(") VALUES ");
             for (int j = 0; j < count; j++)
             {
                 sql.Append(j == 0 ? "(@rid" : ", (@rid");
-                foreach (var c in ParameterColumns) sql.Append(", @").Append(c.Name).Append(j.ToString(Inv));
+                foreach (var c in StoredColumns.Parameter) sql.Append(", @").Append(c.Name).Append(j.ToString(Inv));
                 sql.Append(')');
             }
         }
         var cmd = Command(connection, transaction, sql.ToString());
         var id = AddParameter(cmd, "@rid", ColumnKind.Int, null);
         id.DbType = DbType.Int64;
-        var values = new DbParameter[count * ParameterColumns.Length];
+        var values = new DbParameter[count * StoredColumns.Parameter.Length];
         int f = 0;
         for (int j = 0; j < count; j++)
         {
-            foreach (var c in ParameterColumns) values[f++] = AddParameter(cmd, "@" + c.Name + j.ToString(Inv), c.Kind, null);
+            foreach (var c in StoredColumns.Parameter) values[f++] = AddParameter(cmd, "@" + c.Name + j.ToString(Inv), c.Kind, null);
         }
         return (cmd, id, values);
     }

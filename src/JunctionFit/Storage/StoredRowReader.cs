@@ -5,13 +5,10 @@ using JunctionFit.Results;
 namespace JunctionFit.Storage;
 
 /// <summary>
-/// Reads results back from the columns of <c>SqlResultStore</c>'s select list, by position: 0 result id; 1–3 the key
-/// (file hash, model, options hash); 4 options text; 5–11 file, lot, wafer, die x, die y, status, error; 12–20 the fit
-/// quality; 21 transition voltage; 22 warnings; 23 correlation; 24 parameter count; 25–28 the run; 29 stored at;
-/// 30–31 fitted by and at; 32 the parameter ordinal (NULL when the result has none); 33–40 the parameter (key, symbol,
-/// unit, value, standard error, interval ends, fixed).
+/// Reads results back from the select list of <see cref="StoredColumns.SelectList"/>, every column by its name (the
+/// ordinals are looked up once per query): the result's own columns, then its parameter rows. A column added by a later
+/// migration is NULL in rows stored before it.
 /// </summary>
-/// <param name="readTime">How the engine's time columns are read.</param>
 internal sealed class StoredRowReader(Func<DbDataReader, int, DateTimeOffset> readTime)
 {
     /// <summary>
@@ -21,18 +18,20 @@ internal sealed class StoredRowReader(Func<DbDataReader, int, DateTimeOffset> re
     public List<StoredResult> ReadAll(DbDataReader reader)
     {
         var rows = new List<StoredResult>();
+        var at = new ColumnOrdinals(reader);
+        int id0 = at["id"], ordinal = at["ordinal"];
         long currentId = long.MinValue;
         DbDataReaderRow? pending = null;
         while (reader.Read())
         {
-            long id = reader.GetInt64(0);
+            long id = reader.GetInt64(id0);
             if (id != currentId)
             {
                 if (pending is not null) rows.Add(pending.Build());
-                pending = new DbDataReaderRow(readTime, reader);
+                pending = new DbDataReaderRow(readTime, reader, at);
                 currentId = id;
             }
-            if (!reader.IsDBNull(32)) pending!.AddParameter(reader);
+            if (!reader.IsDBNull(ordinal)) pending!.AddParameter(reader, at);
         }
         if (pending is not null) rows.Add(pending.Build());
         return rows;
@@ -50,40 +49,44 @@ internal sealed class StoredRowReader(Func<DbDataReader, int, DateTimeOffset> re
         private readonly FitResult _result;
         private readonly ImmutableArray<ParameterEstimate>.Builder _parameters;
 
-        public DbDataReaderRow(Func<DbDataReader, int, DateTimeOffset> readTime, DbDataReader r)
+        public DbDataReaderRow(Func<DbDataReader, int, DateTimeOffset> readTime, DbDataReader r, ColumnOrdinals at)
         {
-            _key = new ResultKey(r.GetString(1), r.GetString(2), r.GetString(3));
-            _optionsText = r.GetString(4);
-            FitQuality? quality = r.IsDBNull(12) ? null : new FitQuality(
-                r.GetInt32(12), IntOr(r, 13) ?? 0, IntOr(r, 14) ?? 0, DoubleOr(r, 15) ?? double.NaN, DoubleOr(r, 16),
-                !r.IsDBNull(17) && r.GetBoolean(17), TextOr(r, 18) ?? "", TextOr(r, 19) ?? "", TextOr(r, 20) ?? "");
-            var (corrKeys, corr) = StoredColumnCodecs.ParseCorrelation(r.GetString(23));
+            _key = new ResultKey(r.GetString(at["file_sha256"]), r.GetString(at["model"]), r.GetString(at["options_hash"]));
+            _optionsText = r.GetString(at["options_text"]);
+            FitQuality? quality = r.IsDBNull(at["points_used"]) ? null : new FitQuality(
+                r.GetInt32(at["points_used"]), IntOr(r, at["points_masked"]) ?? 0, IntOr(r, at["iterations"]) ?? 0, DoubleOr(r, at["rss"]) ?? double.NaN,
+                DoubleOr(r, at["reduced_chi2"]), !r.IsDBNull(at["converged"]) && r.GetBoolean(at["converged"]), TextOr(r, at["stop_reason"]) ?? "",
+                TextOr(r, at["covariance_scaling"]) ?? "", TextOr(r, at["interval_method"]) ?? "");
+            var (corrKeys, corr) = StoredColumnCodecs.ParseCorrelation(r.GetString(at["correlation_json"]));
             _result = new FitResult
             {
-                SourcePath = r.GetString(5),
-                Lot = TextOr(r, 6),
-                Wafer = TextOr(r, 7),
-                DieX = IntOr(r, 8),
-                DieY = IntOr(r, 9),
+                SourcePath = r.GetString(at["file_path"]),
+                Lot = TextOr(r, at["lot"]),
+                Wafer = TextOr(r, at["wafer"]),
+                DieX = IntOr(r, at["die_x"]),
+                DieY = IntOr(r, at["die_y"]),
                 Model = _key.Model,
-                Status = StoredColumnCodecs.ParseStatus(r.GetString(10)),
-                Error = TextOr(r, 11),
+                Status = StoredColumnCodecs.ParseStatus(r.GetString(at["status"])),
+                Error = TextOr(r, at["error"]),
+                StatusReason = TextOr(r, at["status_reason"]),
+                ModelValidity = TextOr(r, at["model_validity"]),
+                Diagnoses = TextOr(r, at["diagnoses_json"]) is string diagnoses ? StoredColumnCodecs.ParseWarnings(diagnoses) : [],
                 Quality = quality,
-                TransitionVoltageV = DoubleOr(r, 21),
-                Warnings = StoredColumnCodecs.ParseWarnings(r.GetString(22)),
+                TransitionVoltageV = DoubleOr(r, at["transition_voltage_v"]),
+                Warnings = StoredColumnCodecs.ParseWarnings(r.GetString(at["warnings_json"])),
                 CorrelationKeys = corrKeys,
                 CorrelationRowMajor = corr,
             };
-            _parameters = ImmutableArray.CreateBuilder<ParameterEstimate>(r.GetInt32(24));
-            _run = new RunInfo(r.GetString(25), readTime(r, 26), r.GetString(27), TextOr(r, 28));
-            _storedUtc = readTime(r, 29);
-            _fittedBy = TextOr(r, 30) is { Length: > 0 } by ? by : null;
-            _fittedAt = r.IsDBNull(31) ? null : readTime(r, 31);
+            _parameters = ImmutableArray.CreateBuilder<ParameterEstimate>(r.GetInt32(at["parameter_count"]));
+            _run = new RunInfo(r.GetString(at["run_id"]), readTime(r, at["run_started_utc"]), r.GetString(at["tool_version"]), TextOr(r, at["host"]));
+            _storedUtc = readTime(r, at["stored_utc"]);
+            _fittedBy = TextOr(r, at["fitted_by"]) is { Length: > 0 } by ? by : null;
+            _fittedAt = r.IsDBNull(at["fitted_at"]) ? null : readTime(r, at["fitted_at"]);
         }
 
-        public void AddParameter(DbDataReader r) => _parameters.Add(new ParameterEstimate(
-            r.GetString(33), r.GetString(34), r.GetString(35), DoubleOr(r, 36) ?? double.NaN,
-            DoubleOr(r, 37), DoubleOr(r, 38), DoubleOr(r, 39), r.GetBoolean(40)));
+        public void AddParameter(DbDataReader r, ColumnOrdinals at) => _parameters.Add(new ParameterEstimate(
+            r.GetString(at["param_key"]), r.GetString(at["symbol"]), r.GetString(at["unit"]), DoubleOr(r, at["value"]) ?? double.NaN,
+            DoubleOr(r, at["stderr"]), DoubleOr(r, at["lower95"]), DoubleOr(r, at["upper95"]), r.GetBoolean(at["is_fixed"])));
 
         public StoredResult Build()
             => new(_key, _optionsText, _run, _result with { Parameters = _parameters.ToImmutable() }, _storedUtc)

@@ -97,7 +97,10 @@ public class LotFitRunTests
                 store, () => ResultStore.Open(db), again);
             Assert.Contains("3 of 3 files are already stored", again.ToString(), StringComparison.Ordinal);
             Assert.Contains(new Remedy(RemedyKind.Refit).ToString(), again.ToString(), StringComparison.Ordinal);
-            Assert.Equal(worded.Results.Select(r => (r.Status, r.Error)), second.Results.Select(r => (r.Status, r.Error)));
+            // Taken from the database, each result says what the fit said (status reason, validity, diagnoses kept since schema 4).
+            Assert.Equal(worded.Results.Select(r => (r.Status, r.Error, r.StatusReason, r.ModelValidity)),
+                second.Results.Select(r => (r.Status, r.Error, r.StatusReason, r.ModelValidity)));
+            Assert.Equal(worded.Results.SelectMany(r => r.Diagnoses), second.Results.SelectMany(r => r.Diagnoses));
             Assert.Equal(worded.Results.SelectMany(r => r.Warnings), second.Results.SelectMany(r => r.Warnings));
         }
     }

@@ -1,3 +1,4 @@
+using JunctionFit.Results;
 using JunctionFit.Storage;
 using JunctionFit.StoreCrashHelper;
 using Microsoft.Data.Sqlite;
@@ -208,6 +209,54 @@ public sealed class DatabaseSqliteTests : IDisposable
         }
         using var check = Raw();
         Assert.Equal("fit_result_options", Scalar(check, "SELECT name FROM sqlite_master WHERE type = 'index' AND name = 'fit_result_options'"));
+    }
+
+    [Fact]
+    public void Open_Version3Database_MigratesKeepingRows_NewTextColumnsEmptyUntilRefit()
+    {
+        // A database as version 3 left it, with one poor fit written by hand: after migration 4 the row reads back with
+        // no status reason, validity or diagnoses (they were never stored), and a refit of the same key stores them.
+        Directory.CreateDirectory(Path.GetDirectoryName(_db)!);
+        using (var c = Raw())
+        {
+            void Exec(string sql)
+            {
+                using var cmd = c.CreateCommand();
+                cmd.CommandText = sql;
+                cmd.ExecuteNonQuery();
+            }
+            Exec(Migrations.CreateVersionTable);
+            foreach (var step in Migrations.All.Take(3))
+            {
+                foreach (string sql in step.Sqlite) Exec(sql);
+                Exec($"INSERT INTO schema_version VALUES ({step.Version}, '2025-03-14T10:00:00Z', 'v{step.Version}')");
+            }
+            var key = DemoResults.Key(11);
+            string options = DemoResults.Options.Replace("'", "''", StringComparison.Ordinal);
+            Exec("INSERT INTO fit_result (file_sha256, model, options_hash, options_text, file_path, status, warnings_json, correlation_json, " +
+                 "parameter_count, run_id, run_started_utc, tool_version, host, stored_utc, fitted_by, fitted_at) VALUES " +
+                 $"('{key.FileSha256}', 'simmons', '{key.OptionsHash}', '{options}', 'KM-A01/W00/die_11_00.csv', 'poor-fit', '[\"misfit\"]', " +
+                 "'{\"keys\": [], \"matrix\": []}', 0, 'run-1', '2025-03-14T10:15:00.0000000Z', '0.9', 'probe-7', '2025-03-14T10:16:00.0000000Z', " +
+                 "'probe-7:1', '2025-03-14T10:16:00.0000000Z')");
+        }
+        using var store = Open();
+        Assert.Equal(4, Migrations.Latest);
+        Assert.Equal(Migrations.Latest, store.SchemaVersion);
+        var old = Assert.Single(store.Query()).Result;
+        Assert.Equal(FitStatus.PoorFit, old.Status);
+        Assert.Equal(["misfit"], old.Warnings.ToArray());
+        Assert.Null(old.StatusReason);
+        Assert.Null(old.ModelValidity);
+        Assert.Empty(old.Diagnoses);
+
+        var refit = DemoResults.Row(11, RunInfo.StartNew("9.9.9-test"));
+        Assert.Equal(1, store.StoreBatch([refit]));
+        var back = Assert.Single(store.Query()).Result;
+        Assert.Equal(refit.Result.StatusReason, back.StatusReason);
+        Assert.Equal(refit.Result.ModelValidity, back.ModelValidity);
+        Assert.Equal(refit.Result.Diagnoses.ToArray(), back.Diagnoses.ToArray());
+        Assert.NotEmpty(back.Diagnoses);
+        Assert.Empty(store.CheckConsistency());
     }
 
     private SqliteConnection Raw()
