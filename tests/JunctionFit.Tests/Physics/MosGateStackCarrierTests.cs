@@ -55,7 +55,7 @@ public class MosGateStackCarrierTests
     // Carrier rule of the model documentation; defaults from Lee & Hu 2001 (electrons 3.1 eV, 0.40 mₑ, α 0.6; holes 4.5 eV,
     // 0.32 mₑ, α 0.4): p inversion, electrons (fitted); p accumulation under n⁺ or metal, electrons from the gate (fitted);
     // p accumulation under p⁺, holes from the gate (defaults); n inversion, holes (fitted, α 0.4); n accumulation, electrons
-    // (defaults). Last case: |V_ox| > φ_b, the Fowler–Nordheim side (h = 1/x, no correction).
+    // (defaults). Last case: |V_ox| > φ_b, the Fowler–Nordheim side (h = 1/x, no correction); the two after it are in depletion (ψ_s ≈ 6 kT/q), where the −1 of both brackets weighs.
     [InlineData(false, 'm', 2.0, 2.0, PhiP, MassP, 0.6)]
     [InlineData(false, '-', 1.5, 1.8, PhiP, MassP, 0.6)]
     [InlineData(false, '-', -2.5, 2.0, PhiP, MassP, 0.6)]
@@ -66,6 +66,8 @@ public class MosGateStackCarrierTests
     [InlineData(true, 'n', 2.5, 2.0, 3.1, 0.40, 0.6)]
     [InlineData(true, '-', 2.0, 2.0, 3.1, 0.40, 0.6)]
     [InlineData(false, 'm', 5.5, 3.0, PhiP, MassP, 0.6)]
+    [InlineData(false, 'm', -0.2, 2.0, PhiP, MassP, 0.6)]
+    [InlineData(true, 'm', 0.1, 2.0, PhiN, MassN, 0.4)]
     public void CurrentDensity_EveryStackAndSide_MatchesLeeHuWithIndependentElectrostatics(bool n, char gate, double vg, double tNm,
         double phiEv, double massRatio, double alpha)
     {
