@@ -75,6 +75,17 @@ public class CvAnalysisTests
         Assert.Equal(ExpectedFlatBand(false, -0.8), s.FlatBandVoltageV!.Value, 1e-9);
     }
 
+    [Fact]
+    public void Analyse_StrayLowPointBeyondAccumulationMaximum_StaysOutOfDepletionFit()
+    {
+        // Only the depletion side of C_max (away from accumulation) carries the Sze & Ng 1/C² line; a low point recorded beyond
+        // the accumulation plateau (a contact glitch, say) must not enter it. N back to 1e-9 relative.
+        var (v, c) = Curve(false, -0.8);
+        var s = CvAnalysis.Analyse([-2.05, .. v], [0.3 * Cox, .. c], Area);
+        Assert.Equal(Doping, s.DopingM3!.Value, Doping * 1e-9);
+        Assert.True(s.Saturated);
+    }
+
     [Theory]
     [InlineData(false, 0.97, false)]
     [InlineData(false, 0.99, true)]
