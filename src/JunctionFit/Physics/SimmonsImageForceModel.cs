@@ -101,7 +101,8 @@ public sealed class SimmonsImageForceModel : IBarrierModel, IThermalDecay
         if (s2.V >= s.V) { s2 = new Dual4(0.999 * s.V); width = Dual4.AtLeast(s2 - s1, 0.01 * s.V); }
         Dual4 logArg = s2 * (s - s1) / (s1 * (s - s2));
         Dual4 phiBar = phi0 - u / (2.0 * s) * (s1 + s2) - 1.15 * lambda * s / width * Dual4.Log(logArg);
-        if (phiBar.V <= 0) { valid = false; phiBar = Dual4.AtLeast(phiBar, 1e-3 * phi0.V); }
+        // Not positive, or NaN when s₁ ≥ d makes the logarithm's argument negative: the floor, flagged invalid.
+        if (!(phiBar.V > 0)) { valid = false; phiBar = Dual4.AtLeast(phiBar, 1e-3 * phi0.V); }
         Dual4 decay = SimmonsRectangularModel.DecayPrefactor * Dual4.Sqrt(r) * width; // A
         return new Shape(s1, s2, width, phiBar, decay, new Dual4(u));
     }
