@@ -74,4 +74,18 @@ public class ArrheniusAnalysisTests
         Assert.Throws<ArgumentException>(() => ArrheniusAnalysis.Analyze([100.0, 200.0], [1e-6, double.NaN]));
         Assert.Throws<ArgumentException>(() => ArrheniusAnalysis.Analyze([100.0, 200.0], [1e-6, double.PositiveInfinity]));
     }
+
+    [Fact]
+    public void Analyze_TemperatureIndependentCurrent_ZeroActivationExactFit()
+    {
+        // A current that does not change with temperature is the direct-tunnelling signature: E_a = 0, and the flat line
+        // fits every point exactly, so R² is 1 by this tool's convention (SS_tot = 0 leaves R² = 1 − 0/0 undefined).
+        double[] t = [100.0, 200.0, 300.0];
+        double[] i = [2e-7, 2e-7, 2e-7];
+        var result = ArrheniusAnalysis.Analyze(t, i);
+        Assert.Equal(0.0, result.ActivationEnergyEv);
+        Assert.Equal(1.0, result.RSquared);
+        Assert.Equal(1.0, result.CurrentRatio);
+        Assert.True(result.IsDirectTunnelling);
+    }
 }
