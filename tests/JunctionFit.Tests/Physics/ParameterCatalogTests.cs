@@ -61,6 +61,25 @@ public class ParameterCatalogTests
     }
 
     [Fact]
+    public void Keys_PhysicalRanges_AsDocumented()
+    {
+        // The documented ranges (common practice, no source): 0 < φ ≤ 20 eV, 0 < d ≤ 100 nm, −10 eV < Δφ < 10 eV,
+        // 0 < E_F ≤ 30 eV, 1 < ε_r ≤ 100, 0 < m*/mₑ ≤ 10, −3 V < V_fb < 3 V.
+        Rel(20.0 * CodataE, ParameterKey.BarrierHeight.UpperSi);
+        Rel(100e-9, ParameterKey.Thickness.UpperSi);
+        Rel(-10.0 * CodataE, ParameterKey.Asymmetry.LowerSi);
+        Rel(10.0 * CodataE, ParameterKey.Asymmetry.UpperSi);
+        Rel(30.0 * CodataE, ParameterKey.FermiEnergy.UpperSi);
+        Rel(1.0 / CodataE, ParameterKey.FermiEnergy.DisplayPerSi);
+        Assert.Equal(100.0, ParameterKey.RelativePermittivity.UpperSi);
+        Assert.Equal(10.0, ParameterKey.MassRatio.UpperSi);
+        Assert.Equal(-3.0, ParameterKey.FlatBandVoltage.LowerSi);
+        Assert.Equal(3.0, ParameterKey.FlatBandVoltage.UpperSi);
+        Assert.Equal(double.PositiveInfinity, ParameterKey.SeriesResistance.UpperSi);
+        Assert.Equal(double.NegativeInfinity, ParameterKey.CurrentOffset.LowerSi);
+    }
+
+    [Fact]
     public void Describe_WritesDisplayValueAndUnit()
     {
         Assert.Equal("1.5 nm", ParameterKey.Thickness.Describe(1.5e-9));
@@ -115,6 +134,7 @@ public class ParameterCatalogTests
     [Theory]
     [InlineData(double.NaN, 1.0)]
     [InlineData(0.0, double.NaN)]
+    [InlineData(double.NaN, double.NaN)]
     [InlineData(1.0, 1.0)]
     [InlineData(2.0, 1.0)]
     public void Bounds_InvalidEnds_Throw(double lower, double upper)

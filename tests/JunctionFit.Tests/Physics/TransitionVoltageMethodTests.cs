@@ -69,7 +69,8 @@ public class TransitionVoltageMethodTests
         var cs = i.ToList();
         foreach (var (bias, current) in new[]
                  {
-                     (0.61, -3e-9), (-0.61, 3e-9), (0.0, 1e-12), (0.0, -1e-12), (0.615, double.NaN), (double.NaN, 1e-9),
+                     (0.61, -3e-9), (-0.61, 3e-9), (0.0, 1e-12), (0.0, -1e-12), (0.62, 0.0), (-0.62, 0.0),
+                     (0.615, double.NaN), (double.NaN, 1e-9),
                      (0.6, double.PositiveInfinity), (double.PositiveInfinity, 1e-9),
                  })
         {
@@ -130,8 +131,10 @@ public class TransitionVoltageMethodTests
         Assert.InRange(found.Value, 0.6137 - 0.01, 0.6137 + 0.01);
     }
 
-    [Fact]
-    public void Compute_SkewedMinimum_IsTheSettledVertexOfTheDocumentedWindow()
+    [Theory]
+    [InlineData(false)]
+    [InlineData(true)]
+    public void Compute_SkewedMinimum_IsTheSettledVertexOfTheDocumentedWindow(bool uneven)
     {
         // y = 5 (V − 0.7)² + 4 (V − 0.7)³ is no parabola, so the vertex depends on the window: the method documents a
         // quadratic over the nearest ±max(3, n/20) points, re-centred on the nearest point to the vertex until it stays.
@@ -142,7 +145,9 @@ public class TransitionVoltageMethodTests
         var current = new double[n];
         for (int k = 0; k < n; k++)
         {
-            x[k] = 0.01 * (k + 1);
+            // Uneven spacing (as in a sweep with a changing step) makes the window asymmetric about its centre, so every
+            // moment of the normal equations takes part.
+            x[k] = 0.01 * (k + 1) + (uneven ? 0.003 * Math.Sin(1.7 * k) : 0.0);
             double u = x[k] - 0.7;
             y[k] = -18.0 + 5.0 * u * u + 4.0 * u * u * u;
             current[k] = x[k] * x[k] * Math.Exp(y[k]);
