@@ -16,7 +16,7 @@ public class GateOxideLotTests
     private static string RealFolder => Path.Combine(AppContext.BaseDirectory, "Reference", "RealData", "gate-oxide-nmos");
 
     /// <summary>ε_ox ε₀ with ε_ox = 3.9 and ε₀ = 8.8541878128e-12 F/m (CODATA 2018).</summary>
-    private const double OxidePermittivityFPerM = 3.9 * 8.8541878128e-12;
+    private const double OxidePermittivityFPerM = 3.9 * Codata2018.VacuumPermittivityFPerM;
 
     /// <summary>
     /// Two lots × one wafer × nine n-channel dies (t_ox 2.00 nm; KM-H02 +0.10 nm), V_fb −0.90 V, die scatter ±0.01 nm and ±0.01 V,

@@ -30,11 +30,11 @@ public class CvFileReaderTests
     {
         // Invented p-substrate depletion curve from the depletion approximation (Sze & Ng 3rd ed., ch. 4):
         // 1/C² = 1/C_ox² + 2(V − V_fb)/(q ε_s N A²); the 1/C² slope must return N within 1e-6.
-        double area = 1e-8, n = 3e23, cox = 3.9 * 8.8541878128e-12 / 3e-9 * area, es = 11.7 * 8.8541878128e-12;
+        double area = 1e-8, n = 3e23, cox = 3.9 * Codata2018.VacuumPermittivityFPerM / 3e-9 * area, es = 11.7 * Codata2018.VacuumPermittivityFPerM;
         var lines = new List<string> { "# area: 10000 um2", "V (V), C (pF)" };
         for (double v = -1.0; v <= 1.0001; v += 0.05)
         {
-            double c = v <= -0.8 ? cox : 1.0 / Math.Sqrt(1.0 / (cox * cox) + 2 * (v + 0.8) / (1.602176634e-19 * es * n * area * area));
+            double c = v <= -0.8 ? cox : 1.0 / Math.Sqrt(1.0 / (cox * cox) + 2 * (v + 0.8) / (Codata2018.ElementaryChargeC * es * n * area * area));
             lines.Add(FormattableString.Invariant($"{v:0.00}, {c * 1e12:R}"));
         }
         var cv = CvFileReader.Parse("synthetic.csv", lines);

@@ -14,7 +14,7 @@ namespace JunctionFit.Tests.Physics;
 /// </summary>
 public class BarrierLimitsTests
 {
-    private const double Q = 1.602176634e-19, H = 6.62607015e-34, Me = 9.1093837015e-31; // CODATA 2018
+    private const double Q = Codata2018.ElementaryChargeC, H = Codata2018.PlanckJs, Me = Codata2018.ElectronMassKg; // CODATA 2018
     private const double Hbar = H / (2 * Math.PI);
     private static readonly BrinkmanDynesRowellModel Bdr = BrinkmanDynesRowellModel.Instance;
 

@@ -80,7 +80,7 @@ public class BrinkmanDynesRowellModelTests
     private static double IndependentBdr(double v, double phiEv, double dNm, double dphiEv, double massRatio)
     {
         // CODATA 2018 (NIST SP 961): e and h exact, mₑ and ε₀ measured; typed in here, independent of PhysicalConstants.
-        const double q = 1.602176634e-19, h = 6.62607015e-34, me = 9.1093837015e-31;
+        const double q = Codata2018.ElementaryChargeC, h = Codata2018.PlanckJs, me = Codata2018.ElectronMassKg;
         double hbar = h / (2 * Math.PI);
         double d = dNm * 1e-9;
         double m = massRatio * me;

@@ -13,7 +13,7 @@ namespace JunctionFit.Tests.Physics;
 /// </summary>
 public class CvAnalysisTests
 {
-    private const double Q = 1.602176634e-19, K = 1.380649e-23, Eps0 = 8.8541878128e-12;
+    private const double Q = Codata2018.ElementaryChargeC, K = Codata2018.BoltzmannJPerK, Eps0 = Codata2018.VacuumPermittivityFPerM;
     private const double EpsS = 11.7 * Eps0, EpsOx = 3.9 * Eps0;
     private const double Area = 1e-8, Tox = 3e-9, Doping = 3e23;
     private static readonly double Cox = EpsOx / Tox * Area;

@@ -11,7 +11,7 @@ namespace JunctionFit.Tests.Physics;
 public class EnergyDecayTests
 {
     // CODATA 2018 (NIST SP 961): e, h and k exact, mₑ measured; typed in here, independent of PhysicalConstants.
-    private const double Q = 1.602176634e-19, H = 6.62607015e-34, Me = 9.1093837015e-31, Kb = 1.380649e-23;
+    private const double Q = Codata2018.ElementaryChargeC, H = Codata2018.PlanckJs, Me = Codata2018.ElectronMassKg, Kb = Codata2018.BoltzmannJPerK;
     private const double Hbar = H / (2 * Math.PI);
 
     /// <summary>Rectangular barrier of width Δs and mean height φ̄ below the Fermi level by ε: exponent 2Δs√(2m*(φ̄ + ε))/ħ (WKB).</summary>

@@ -11,9 +11,9 @@ namespace JunctionFit.Tests.Physics;
 /// </summary>
 public class FowlerNordheimPlotTests
 {
-    private const double CodataE = 1.602176634e-19;      // C, CODATA 2018 (exact)
-    private const double CodataMe = 9.1093837015e-31;    // kg, CODATA 2018
-    private const double CodataHbar = 1.054571817e-34;   // J s, CODATA 2018
+    private const double CodataE = Codata2018.ElementaryChargeC;      // C, CODATA 2018 (exact)
+    private const double CodataMe = Codata2018.ElectronMassKg;    // kg, CODATA 2018
+    private const double CodataHbar = Codata2018.ReducedPlanckJs;   // J s, CODATA 2018
     private const double D = 3e-9;
 
     private static (double[] X, double[] Y) Reference(double[] v, double[] i)

@@ -11,11 +11,11 @@ namespace JunctionFit.Tests.Physics;
 public class ModelConstantsTests
 {
     // CODATA 2018 recommended values (NIST SP 961, 2019): e, h and k exact by the 2019 SI definition; mₑ and ε₀ measured.
-    private const double CodataE = 1.602176634e-19;
-    private const double CodataH = 6.62607015e-34;
-    private const double CodataMe = 9.1093837015e-31;
-    private const double CodataK = 1.380649e-23;
-    private const double CodataEps0 = 8.8541878128e-12;
+    private const double CodataE = Codata2018.ElementaryChargeC;
+    private const double CodataH = Codata2018.PlanckJs;
+    private const double CodataMe = Codata2018.ElectronMassKg;
+    private const double CodataK = Codata2018.BoltzmannJPerK;
+    private const double CodataEps0 = Codata2018.VacuumPermittivityFPerM;
 
     private const double Ev = CodataE;
 
@@ -29,7 +29,7 @@ public class ModelConstantsTests
         Assert.Equal(CodataMe, PhysicalConstants.ElectronMassKg);
         Assert.Equal(CodataEps0, PhysicalConstants.VacuumPermittivityFPerM);
         // ħ = 1.054571817…×10⁻³⁴ J s (CODATA 2018, exact but infinitely long; printed to 10 digits).
-        Assert.InRange(PhysicalConstants.ReducedPlanckJs / 1.054571817e-34, 1 - 1e-9, 1 + 1e-9);
+        Assert.InRange(PhysicalConstants.ReducedPlanckJs / Codata2018.ReducedPlanckJs, 1 - 1e-9, 1 + 1e-9);
         Assert.Equal(CodataE, PhysicalConstants.JoulePerElectronVolt);
     }
 

@@ -13,7 +13,7 @@ namespace JunctionFit.Tests.Physics;
 /// </summary>
 public class MosGateStackCarrierTests
 {
-    private const double Q = MosReference.Q, H = 6.62607015e-34, Me = 9.1093837015e-31; // CODATA 2018 (NIST SP 961)
+    private const double Q = MosReference.Q, H = Codata2018.PlanckJs, Me = Codata2018.ElectronMassKg; // CODATA 2018 (NIST SP 961)
     private const double Hbar = H / (2 * Math.PI);
 
     // Fitted-carrier parameters that differ from every default, so that the choice between parameter and default shows.

@@ -12,9 +12,9 @@ namespace JunctionFit.Tests.Physics;
 /// </summary>
 internal sealed class MosReference
 {
-    public const double Q = 1.602176634e-19;   // C, CODATA 2018 (exact)
-    public const double K = 1.380649e-23;      // J/K, CODATA 2018 (exact)
-    public const double Eps0 = 8.8541878128e-12; // F/m, CODATA 2018
+    public const double Q = Codata2018.ElementaryChargeC;   // C, CODATA 2018 (exact)
+    public const double K = Codata2018.BoltzmannJPerK;      // J/K, CODATA 2018 (exact)
+    public const double Eps0 = Codata2018.VacuumPermittivityFPerM; // F/m, CODATA 2018
     public const double Ni300 = 1.0e16;        // m^-3, 1.0e10 cm^-3 at 300 K (from memory)
     public const double ChiEv = 4.05;          // electron affinity of Si, eV (Sze & Ng 3rd ed.)
 

@@ -11,7 +11,7 @@ namespace JunctionFit.Tests.Physics;
 /// </summary>
 public class ParameterCatalogTests
 {
-    private const double CodataE = 1.602176634e-19; // CODATA 2018, exact: 1 eV = 1.602176634e-19 J
+    private const double CodataE = Codata2018.ElementaryChargeC; // CODATA 2018, exact: 1 eV = 1.602176634e-19 J
 
     private static void Rel(double expected, double actual)
         => Assert.True(Math.Abs(actual - expected) <= 1e-12 * Math.Abs(expected), $"expected {expected:R}, got {actual:R}");

@@ -18,7 +18,7 @@ public class SimmonsImageForceModelTests
     private static double Independent(double v, double phi0, double sAngstrom, double r, double k)
     {
         // CODATA 2018 (NIST SP 961): e and h exact, mₑ and ε₀ measured; typed in here, independent of PhysicalConstants.
-        const double q = 1.602176634e-19, h = 6.62607015e-34, me = 9.1093837015e-31, eps0 = 8.8541878128e-12;
+        const double q = Codata2018.ElementaryChargeC, h = Codata2018.PlanckJs, me = Codata2018.ElectronMassKg, eps0 = Codata2018.VacuumPermittivityFPerM;
         double vAbs = Math.Abs(v);
         double lambda = q * Math.Log(2) / (8 * Math.PI * k * eps0 * sAngstrom * 1e-10); // eV
         double s1 = 1.2 * lambda * sAngstrom / phi0;

@@ -12,7 +12,7 @@ namespace JunctionFit.Tests.Physics;
 /// </summary>
 public class SimmonsImageGeometryTests
 {
-    private const double Q = 1.602176634e-19, H = 6.62607015e-34, Me = 9.1093837015e-31, Eps0 = 8.8541878128e-12; // CODATA 2018
+    private const double Q = Codata2018.ElementaryChargeC, H = Codata2018.PlanckJs, Me = Codata2018.ElectronMassKg, Eps0 = Codata2018.VacuumPermittivityFPerM; // CODATA 2018
     private static readonly SimmonsImageForceModel Model = new();
 
     private static double[] P(double phiEv, double dNm, double r, double eps) => [phiEv * Q, dNm * 1e-9, r, eps];

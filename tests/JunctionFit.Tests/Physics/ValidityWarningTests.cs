@@ -12,7 +12,7 @@ namespace JunctionFit.Tests.Physics;
 /// </summary>
 public class ValidityWarningTests
 {
-    private const double Q = 1.602176634e-19, H = 6.62607015e-34, Me = 9.1093837015e-31;
+    private const double Q = Codata2018.ElementaryChargeC, H = Codata2018.PlanckJs, Me = Codata2018.ElectronMassKg;
     private const double Hbar = H / (2 * Math.PI);
     private static readonly SimmonsRectangularModel Simmons = SimmonsRectangularModel.Instance;
     private static readonly FowlerNordheimModel Fn = FowlerNordheimModel.Instance;

@@ -11,10 +11,10 @@ namespace JunctionFit.Tests.Physics;
 /// </summary>
 public class WkbReferenceTests
 {
-    private const double CodataE = 1.602176634e-19;      // C, CODATA 2018 (exact)
-    private const double CodataH = 6.62607015e-34;       // J s, CODATA 2018 (exact)
-    private const double CodataHbar = 1.054571817e-34;   // J s, CODATA 2018
-    private const double CodataMe = 9.1093837015e-31;    // kg, CODATA 2018
+    private const double CodataE = Codata2018.ElementaryChargeC;      // C, CODATA 2018 (exact)
+    private const double CodataH = Codata2018.PlanckJs;       // J s, CODATA 2018 (exact)
+    private const double CodataHbar = Codata2018.ReducedPlanckJs;   // J s, CODATA 2018
+    private const double CodataMe = Codata2018.ElectronMassKg;    // kg, CODATA 2018
 
     [Theory]
     [InlineData(1.0)]
