@@ -25,7 +25,8 @@ internal static class DenseKernels
             sum += v[i] * v[i];
         }
 
-        if (double.IsFinite(sum) && (sum > SmallSumOfSquares || sum == 0.0))
+        // A zero sum is not taken as is: entries below ~1.5e-162 square to 0 (a zero vector costs one more pass).
+        if (double.IsFinite(sum) && sum > SmallSumOfSquares)
         {
             return Math.Sqrt(sum);
         }
