@@ -131,6 +131,27 @@ public class TransitionVoltageMethodTests
         Assert.InRange(found.Value, 0.6137 - 0.01, 0.6137 + 0.01);
     }
 
+    [Fact]
+    public void Compute_ShallowMinimumInTheMiddleUnderRipple_IsNoMinimum()
+    {
+        // The vertex in the middle, so the smooth's minimum stays inside the sweep, but only 0.0176 deep at the ends
+        // (c2 = 0.05 V⁻², (0.6137 − 0.02)² · 0.05), against a ±0.03 ripple of seeded random signs: the end-rise test alone
+        // must say no, with the scatter measured about the smooth (root mean square of y − smooth, at ln(I/V²) ≈ −20).
+        var (v, i) = Parabola(0.6137, c2: 0.05);
+        Assert.NotNull(TransitionVoltage.Compute(v, i, positiveBias: true));
+        var rng = new Random(3);
+        double[] ripple = v.Select(_ => rng.Next(2) == 0 ? 0.03 : -0.03).ToArray();
+        var noisy = i.Select((x, k) => x * Math.Exp(ripple[k])).ToArray();
+        Assert.Null(TransitionVoltage.Compute(v, noisy, positiveBias: true));
+        // Forty times deeper (c2 = 2): the same ripple leaves the minimum. Where: within 0.1 V only, since the documented
+        // refinement window (±3 points, ±0.06 V) fits the ripple as well (0.69 V here for the 0.6137 V vertex).
+        var (vd, id) = Parabola(0.6137, c2: 2.0);
+        var deep = id.Select((x, k) => x * Math.Exp(ripple[k])).ToArray();
+        double? found = TransitionVoltage.Compute(vd, deep, positiveBias: true);
+        Assert.NotNull(found);
+        Assert.InRange(found.Value, 0.6137 - 0.1, 0.6137 + 0.1);
+    }
+
     [Theory]
     [InlineData(false)]
     [InlineData(true)]
