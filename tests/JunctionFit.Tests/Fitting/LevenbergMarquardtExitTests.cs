@@ -210,4 +210,14 @@ public sealed class LevenbergMarquardtExitTests
         Assert.InRange(s.JacobianRowMajor[0] / forward, 1 - 1e-8, 1 + 1e-8);
         Assert.Equal(s.JacobianRowMajor[0], s.JacobianRowMajor[1]);
     }
+
+    [Fact]
+    public void Minimize_ProblemOfInconsistentSize_ThrowsArgumentException()
+    {
+        // No parameter, or fewer residuals than parameters: programmer errors, refused before any evaluation.
+        var none = new Problem(3, 0, (_, _) => throw new InvalidOperationException("must not be evaluated"));
+        var under = new Problem(1, 2, (_, _) => throw new InvalidOperationException("must not be evaluated"));
+        Assert.Throws<ArgumentException>(() => LevenbergMarquardtSolver.Minimize(none, []));
+        Assert.Throws<ArgumentException>(() => LevenbergMarquardtSolver.Minimize(under, [1.0, 2.0]));
+    }
 }

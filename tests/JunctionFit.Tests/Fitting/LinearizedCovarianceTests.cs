@@ -83,4 +83,16 @@ public sealed class LinearizedCovarianceTests
     [Fact]
     public void Compute_NonFiniteJacobian_ThrowsArgumentException()
         => Assert.Throws<ArgumentException>(() => LinearizedCovariance.Compute([1.0, double.NaN], 2, 1, 1.0));
+
+    [Fact]
+    public void Compute_InconsistentSizes_ThrowArgumentException()
+    {
+        // Fewer residuals than parameters, no parameter, and a Jacobian of the wrong length: programmer errors.
+        Assert.Throws<ArgumentException>(() => LinearizedCovariance.Compute([1.0, 2.0], 1, 2, 1.0));
+        Assert.Throws<ArgumentException>(() => LinearizedCovariance.Compute([], 3, 0, 1.0));
+        ArgumentException e = Assert.Throws<ArgumentException>(() => LinearizedCovariance.Compute([1.0, 2.0, 3.0], 2, 2, 1.0));
+        Assert.Contains("4", e.Message, StringComparison.Ordinal);   // m·n, the length it expected
+        Assert.Throws<ArgumentOutOfRangeException>(() => LinearizedCovariance.Compute([1.0, 2.0], 2, 1, -1.0));
+        Assert.Throws<ArgumentOutOfRangeException>(() => LinearizedCovariance.Compute([1.0, 2.0], 2, 1, 1.0, conditionThreshold: 0.5));
+    }
 }
